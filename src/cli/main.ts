@@ -1,0 +1,56 @@
+import { Command, CommanderError } from 'commander';
+import { BitspanError, exitStatusFor } from '../errors.js';
+import { solveCommand } from './commands/solve.js';
+import type { CliIo } from './io.js';
+
+/** Commands in the order `--help` lists them; each module adds one. */
+const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand];
+
+/**
+ * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,
+ * 2 bad input or usage, 1 internal fault. Errors are caught here and nowhere else.
+ */
+export async function main(argv: string[], io: CliIo): Promise<number> {
+  const program = new Command('bitspan')
+    .description('ground-state energies from sampled bitstring subspaces')
+    .version('0.1.0')
+    .exitOverride()
+    .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) })
+    .showSuggestionAfterError(true);
+  for (const make of COMMANDS) {
+    const cmd = make(io);
+    cmd.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
+    program.addCommand(cmd);
+  }
+  try {
+    await program.parseAsync(argv, { from: 'user' });
+    return 0;
+  } catch (e) {
+    return reportError(e, io);
+  }
+}
+
+function reportError(e: unknown, io: CliIo): number {
+  if (e instanceof CommanderError) {
+    // Commander has already printed its message; help and version exit 0.
+    if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help') return 0;
+    return 2;
+  }
+  const err = unwrap(e);
+  if (err instanceof BitspanError) {
+    io.stderr(`bitspan: error: ${err.toLine()}\n`);
+    return exitStatusFor(err.code);
+  }
+  const msg = e instanceof Error ? e.message : String(e);
+  io.stderr(`bitspan: internal error: ${msg.replace(/\s+/g, ' ')} (please report this with the command you ran)\n`);
+  if (process.env.BITSPAN_DEBUG && e instanceof Error && e.stack) io.stderr(e.stack + '\n');
+  return 1;
+}
+
+// Commander wraps errors thrown by argument parsers in its own InvalidArgumentError message only
+// for InvalidArgumentError; ours pass through, but a cause chain may wrap them elsewhere.
+function unwrap(e: unknown): unknown {
+  let cur = e;
+  for (let i = 0; i < 5 && cur instanceof Error && !(cur instanceof BitspanError) && cur.cause; i++) cur = cur.cause;
+  return cur;
+}

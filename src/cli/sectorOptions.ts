@@ -1,0 +1,50 @@
+import type { Command } from 'commander';
+import type { Qubit0 } from '../io/bitstringParser.js';
+import type { SampleFormat } from '../io/readSamples.js';
+import { parseWeightSpec, type Sector } from '../sectors/sector.js';
+import { collect, nonNegativeNumber, oneOf, positiveInt, positiveNumber } from './parse.js';
+
+/** The sample and sector flags shared by every command that reads dumps. */
+export function addSampleOptions(cmd: Command): Command {
+  return cmd
+    .option('--weight <spec>', 'keep configurations with K ones (K), or K ones among qubits A..B (A-B=K); repeatable', collect)
+    .option('--parity <even|odd>', 'keep configurations of this total parity', oneOf('--parity', ['even', 'odd'] as const))
+    .option('--min-count <c>', 'keep configurations seen at least C times in all dumps together', nonNegativeNumber('--min-count'))
+    .option('--max-dim <d>', 'keep at most D configurations, the most frequent first', positiveInt('--max-dim'))
+    .option('--qubits <n>', 'register size (needed for hexadecimal bitstrings)', positiveInt('--qubits'))
+    .option('--qubit0 <right|left>', 'which end of a bitstring is qubit 0', oneOf('--qubit0', ['right', 'left'] as const), 'right')
+    .option('--format <fmt>', 'sample format: auto (by extension), csv, json or text', oneOf('--format', ['auto', 'csv', 'json', 'text'] as const), 'auto');
+}
+
+export interface SampleFlags {
+  weight?: string[];
+  parity?: 'even' | 'odd';
+  minCount?: number;
+  maxDim?: number;
+  qubits?: number;
+  qubit0: Qubit0;
+  format: SampleFormat;
+}
+
+/** The sector described by the flags. */
+export function sectorFromFlags(f: SampleFlags): Sector {
+  return {
+    weights: (f.weight ?? []).map((s) => {
+      const w = parseWeightSpec(s);
+      return { lo: w.lo, hi: w.hi, weight: w.weight };
+    }),
+    parity: f.parity,
+  };
+}
+
+/** The solver flags shared by commands that diagonalise. */
+export function addSolverOptions(cmd: Command): Command {
+  return cmd
+    .option('--eigs <k>', 'number of lowest eigenpairs', positiveInt('--eigs'), 1)
+    .option('--tol <t>', 'converged when the residual norm is below tol times the largest |eigenvalue|', positiveNumber('--tol'), 1e-8)
+    .option('--seed <n>', 'seed of the Lanczos start vector', (v) => Number(positiveIntOrZero(v)), 1);
+}
+
+function positiveIntOrZero(v: string): number {
+  return /^\d+$/.test(v) ? Number(v) : positiveInt('--seed')(v);
+}

@@ -1,0 +1,58 @@
+import { BitspanError } from '../errors.js';
+import { MAX_QUBITS } from './bitstringParser.js';
+import { PauliSumBuilder, type PauliSum } from '../operators/pauliSum.js';
+import { parseCoefficient, parsePauliOps } from './hamiltonianText.js';
+
+/** Parse the JSON form `{"qubits": N, "terms": [{"coeff": 0.25, "ops": "X0 X1"}]}`. */
+export function parseHamiltonianJson(text: string, file: string): PauliSum {
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+  } catch (e) {
+    const msg = (e as Error).message;
+    const pos = /position (\d+)/.exec(msg);
+    const line = pos ? text.slice(0, Number(pos[1])).split('\n').length : undefined;
+    throw new BitspanError('bad-hamiltonian', `invalid JSON: ${msg.replace(/\s+/g, ' ').slice(0, 120)}`, 'check brackets, commas and quotes', { file, line });
+  }
+  const fail = (what: string, hint: string): never => {
+    throw new BitspanError('bad-hamiltonian', what, hint, { file });
+  };
+  if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) fail('top level is not an object', 'write {"qubits": N, "terms": [...]}');
+  const o = doc as Record<string, unknown>;
+  let declared: number | undefined;
+  if (o.qubits !== undefined) {
+    if (typeof o.qubits !== 'number' || !Number.isInteger(o.qubits) || o.qubits < 1 || o.qubits > MAX_QUBITS) {
+      fail(`"qubits" is ${JSON.stringify(o.qubits)}, not a whole number from 1 to ${MAX_QUBITS}`, 'give the register size as a number');
+    }
+    declared = o.qubits as number;
+  }
+  if (!Array.isArray(o.terms)) fail('"terms" is missing or not a list', 'write "terms": [{"coeff": 0.25, "ops": "X0 X1"}]');
+  const terms = o.terms as unknown[];
+  if (terms.length === 0) throw new BitspanError('file-empty', 'Hamiltonian has no terms', 'add at least one term', { file });
+  const parsed: Array<{ coeff: number; ops: ReturnType<typeof parsePauliOps> }> = [];
+  let maxIndex = -1;
+  terms.forEach((t, i) => {
+    if (typeof t !== 'object' || t === null) fail(`terms[${i}] is not an object`, 'each term is {"coeff": number, "ops": "X0 X1"}');
+    const term = t as Record<string, unknown>;
+    const c = term.coeff;
+    if (typeof c !== 'number' && typeof c !== 'string') {
+      fail(`terms[${i}].coeff is ${Array.isArray(c) ? 'a list (complex?)' : JSON.stringify(c)}, not a real number`, 'coefficients are real numbers');
+    }
+    const coeff = typeof c === 'number' ? c : parseCoefficient(String(c).trim(), file, undefined);
+    if (!Number.isFinite(coeff)) fail(`terms[${i}].coeff is not finite`, 'use a finite real coefficient');
+    const opsText = term.ops ?? '';
+    if (typeof opsText !== 'string') fail(`terms[${i}].ops is not a string`, 'write ops as "X0 X1"');
+    let ops;
+    try {
+      ops = parsePauliOps((opsText as string).trim().split(/\s+/).filter((s) => s.length > 0), file, undefined, declared ?? MAX_QUBITS);
+    } catch (e) {
+      if (e instanceof BitspanError) throw new BitspanError(e.code, `terms[${i}]: ${e.message}`, e.hint, { file });
+      throw e;
+    }
+    for (const [, q] of ops) if (q > maxIndex) maxIndex = q;
+    parsed.push({ coeff, ops });
+  });
+  const builder = new PauliSumBuilder(declared ?? maxIndex + 1);
+  for (const t of parsed) builder.add(t.coeff, t.ops);
+  return builder.finish(declared !== undefined);
+}

@@ -1,0 +1,75 @@
+import { extname } from 'node:path';
+import { BitspanError } from '../errors.js';
+import { ConfigTable } from '../bits/configTable.js';
+import { BitstringParser, type Qubit0 } from './bitstringParser.js';
+import { checkReadable } from './lines.js';
+import { readSamplesCsv } from './samplesCsv.js';
+import { readSamplesJson } from './samplesJson.js';
+import { readSamplesText } from './samplesText.js';
+
+/** Sample file formats. `auto` chooses by extension: .csv, .json, anything else plain text. */
+export type SampleFormat = 'auto' | 'csv' | 'json' | 'text';
+
+/** One dump (typically one evolution time), deduplicated. */
+export interface SampleGroup {
+  file: string;
+  /** Data rows read. */
+  rows: number;
+  /** Total shots (sum of counts). */
+  shots: number;
+  /** Distinct configurations of this group with their summed counts. */
+  table: ConfigTable;
+}
+
+/** Every dump of one run, sharing one register size. */
+export interface SampleSet {
+  qubits: number;
+  nWords: number;
+  groups: SampleGroup[];
+}
+
+export interface ReadSamplesOptions {
+  /** Register size; required for hexadecimal bitstrings, otherwise learnt from the first row. */
+  qubits?: number;
+  qubit0?: Qubit0;
+  format?: SampleFormat;
+}
+
+/** Read and deduplicate one or more sample dumps, one group per file, streaming each file. */
+export async function readSamples(files: string[], opts: ReadSamplesOptions = {}): Promise<SampleSet> {
+  if (files.length === 0) throw new BitspanError('bad-argument', 'no sample files given', 'pass one or more dumps with --samples');
+  const parser = new BitstringParser({ qubits: opts.qubits, qubit0: opts.qubit0 });
+  const groups: SampleGroup[] = [];
+  for (const file of files) {
+    await checkReadable(file, 'sample');
+    let table: ConfigTable | undefined;
+    let shots = 0;
+    const sink = {
+      add(words: Uint32Array, count: number): void {
+        table ??= new ConfigTable(parser.nWords);
+        table.add(words, 0, count);
+        shots += count;
+      },
+    };
+    const format = resolveFormat(file, opts.format ?? 'auto');
+    const rows =
+      format === 'csv'
+        ? await readSamplesCsv(file, parser, sink)
+        : format === 'json'
+          ? await readSamplesJson(file, parser, sink)
+          : await readSamplesText(file, parser, sink);
+    if (rows === 0 || !table) {
+      throw new BitspanError('file-empty', 'sample file holds no samples', 'give at least one bitstring row', { file });
+    }
+    groups.push({ file, rows, shots, table });
+  }
+  return { qubits: parser.qubits, nWords: parser.nWords, groups };
+}
+
+function resolveFormat(file: string, format: SampleFormat): Exclude<SampleFormat, 'auto'> {
+  if (format !== 'auto') return format;
+  const ext = extname(file).toLowerCase();
+  if (ext === '.csv') return 'csv';
+  if (ext === '.json') return 'json';
+  return 'text';
+}

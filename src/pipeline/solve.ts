@@ -1,0 +1,168 @@
+import { BitspanError } from '../errors.js';
+import type { Basis } from '../bits/basis.js';
+import { formatBitstring } from '../bits/packed.js';
+import { buildProjectedHamiltonian } from '../build/projectedHamiltonian.js';
+import { csrApplyRows, nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
+import type { Qubit0 } from '../io/bitstringParser.js';
+import { readHamiltonian } from '../io/readHamiltonian.js';
+import { readSamples, type SampleFormat } from '../io/readSamples.js';
+import { groupByFlipMask, highestQubit, type PauliSum } from '../operators/pauliSum.js';
+import { compileSector, describeSector, type Sector } from '../sectors/sector.js';
+import { selectSubspace, type SubspaceReport } from '../sectors/selectSubspace.js';
+import { lanczos, LANCZOS_DEFAULTS, type LanczosResult, type LinearOperator } from '../solvers/lanczos.js';
+
+/** Everything `solve` needs; file paths are read here, at the edge. */
+export interface SolveOptions {
+  hamiltonian: string;
+  samples: string[];
+  sector?: Sector;
+  minCount?: number;
+  maxDim?: number;
+  eigs?: number;
+  tol?: number;
+  seed?: number;
+  qubits?: number;
+  qubit0?: Qubit0;
+  format?: SampleFormat;
+  /** Most probable configurations of the ground state to report. */
+  top?: number;
+}
+
+/** The JSON `solve --json` prints: every energy travels with its residual and its subspace. */
+export interface SolveReport {
+  command: 'solve';
+  qubits: number;
+  dimension: number;
+  nonzeros: number;
+  complex: boolean;
+  energies: number[];
+  residuals: number[];
+  converged: boolean;
+  iterations: number;
+  matvecs: number;
+  tolerance: number;
+  seed: number;
+  hamiltonian: { file: string; terms: number; constant: number; qubits: number };
+  samples: SubspaceReport;
+  sector: SectorReport;
+  timings: Record<string, number>;
+  groundState: { top: Array<{ bitstring: string; probability: number }> };
+}
+
+export interface SectorReport {
+  description: string;
+  weights: Array<{ qubits: [number, number]; weight: number }>;
+  parity: 'even' | 'odd' | null;
+  minCount: number | null;
+  maxDim: number | null;
+}
+
+/** In-memory results for library callers that need the basis, matrix or vectors themselves. */
+export interface SolveOutcome {
+  report: SolveReport;
+  basis: Basis;
+  matrix: SparseMatrix;
+  hamiltonian: PauliSum;
+  eigen: LanczosResult;
+}
+
+/** Operator view of a stored sparse matrix. */
+export function matrixOperator(m: SparseMatrix): LinearOperator {
+  return { dim: m.dim, complex: m.complex, apply: (x, y) => csrApplyRows(m, x, y) };
+}
+
+/** Check that the Hamiltonian and the samples describe the same register. */
+export function checkRegister(h: PauliSum, hamiltonianFile: string, sampleQubits: number, sampleFile: string): void {
+  const top = highestQubit(h);
+  if (top >= sampleQubits) {
+    throw new BitspanError(
+      'qubit-mismatch',
+      `Hamiltonian acts on qubit ${top} but the samples (${sampleFile}) have ${sampleQubits} qubits`,
+      'check that the Hamiltonian and the dumps describe the same register (and the qubit order, --qubit0)',
+      { file: hamiltonianFile },
+    );
+  }
+  if (h.declaredQubits && h.qubits !== sampleQubits) {
+    throw new BitspanError(
+      'qubit-mismatch',
+      `Hamiltonian declares qubits ${h.qubits} but the samples (${sampleFile}) have ${sampleQubits}`,
+      'make the qubits line match the bitstring length',
+      { file: hamiltonianFile },
+    );
+  }
+}
+
+/** Sector report for JSON output. */
+export function sectorReport(sector: Sector, qubits: number, minCount?: number, maxDim?: number): SectorReport {
+  return {
+    description: describeSector(sector, qubits),
+    weights: sector.weights.map((w) => ({ qubits: [w.lo, w.hi < 0 ? qubits - 1 : w.hi] as [number, number], weight: w.weight })),
+    parity: sector.parity ?? null,
+    minCount: minCount ?? null,
+    maxDim: maxDim ?? null,
+  };
+}
+
+/** The `top` most probable configurations of a (normalised) state over `basis`. */
+export function topConfigurations(basis: Basis, v: Float64Array, complex: boolean, top: number, qubit0: Qubit0 = 'right'): Array<{ bitstring: string; probability: number }> {
+  const n = basis.dim;
+  const prob = new Float64Array(n);
+  for (let i = 0; i < n; i++) prob[i] = complex ? v[2 * i]! ** 2 + v[2 * i + 1]! ** 2 : v[i]! ** 2;
+  // Partial selection: keep a small sorted list rather than sorting all of D.
+  const best: number[] = [];
+  for (let i = 0; i < n; i++) {
+    if (best.length === top && prob[i]! <= prob[best[best.length - 1]!]!) continue;
+    let at = best.length;
+    while (at > 0 && prob[best[at - 1]!]! < prob[i]!) at--;
+    best.splice(at, 0, i);
+    if (best.length > top) best.pop();
+  }
+  return best.map((i) => ({ bitstring: formatBitstring(basis.states, i * basis.nWords, basis.qubits, qubit0), probability: prob[i]! }));
+}
+
+/** Read the Hamiltonian and dumps, select the subspace, build H_S and find its lowest eigenpairs. */
+export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
+  const t0 = performance.now();
+  const timings: Record<string, number> = {};
+  const lap = (name: string, since: number): number => {
+    const now = performance.now();
+    timings[name] = (now - since) / 1000;
+    return now;
+  };
+  const hamiltonian = await readHamiltonian(opts.hamiltonian);
+  let t = lap('readHamiltonian', t0);
+  const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format });
+  t = lap('readSamples', t);
+  checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
+  const sector = opts.sector ?? { weights: [] };
+  const { basis, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim });
+  t = lap('filter', t);
+  const groups = groupByFlipMask(hamiltonian, samples.nWords);
+  const matrix = buildProjectedHamiltonian(basis, groups, compileSector(sector, samples.qubits, samples.nWords));
+  t = lap('build', t);
+  const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
+  const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
+  const eigen = lanczos(matrixOperator(matrix), { eigs: opts.eigs ?? 1, tol, seed });
+  t = lap('solve', t);
+  timings.total = (t - t0) / 1000;
+  const result: SolveReport = {
+    command: 'solve',
+    qubits: samples.qubits,
+    dimension: basis.dim,
+    nonzeros: nonzeros(matrix),
+    complex: matrix.complex,
+    energies: Array.from(eigen.values),
+    residuals: Array.from(eigen.residuals),
+    converged: eigen.converged,
+    iterations: eigen.iterations,
+    matvecs: eigen.matvecs,
+    tolerance: tol,
+    seed,
+    hamiltonian: { file: opts.hamiltonian, terms: hamiltonian.terms.length, constant: hamiltonian.constant, qubits: hamiltonian.qubits },
+    samples: report,
+    sector: sectorReport(sector, samples.qubits, opts.minCount, opts.maxDim),
+    timings,
+    groundState: { top: topConfigurations(basis, eigen.vectors[0]!, matrix.complex, opts.top ?? 10, opts.qubit0) },
+  };
+  return { report: result, basis, matrix, hamiltonian, eigen };
+}
