@@ -24,5 +24,5 @@ export { csrApplyRows, joinRowPieces, nonzeros, toDense, type SparseMatrix, type
 export { lanczos, LANCZOS_DEFAULTS, type LanczosOptions, type LanczosResult, type LinearOperator } from './solvers/lanczos.js';
 export { symmetricEigen } from './solvers/symmetricEigen.js';
 
-export { solve, matrixOperator, topConfigurations, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
+export { solve, projectAndSolve, checkRegister, sectorReport, matrixOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
 export { seededUniform } from './util/random.js';

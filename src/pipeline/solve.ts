@@ -120,6 +120,41 @@ export function topConfigurations(basis: Basis, v: Float64Array, complex: boolea
   return best.map((i) => ({ bitstring: formatBitstring(basis.states, i * basis.nWords, basis.qubits, qubit0), probability: prob[i]! }));
 }
 
+/** Solver settings shared by every command that diagonalises a projected Hamiltonian. */
+export interface SolverSettings {
+  eigs?: number;
+  tol?: number;
+  seed?: number;
+  /** Optional start vector for Lanczos (e.g. a saved state). */
+  start?: Float64Array;
+}
+
+/** The projected matrix, its eigenpairs and how long each took. */
+export interface Projection {
+  matrix: SparseMatrix;
+  eigen: LanczosResult;
+  timings: { build: number; solve: number };
+}
+
+/**
+ * Build H_S on `basis` and find its lowest eigenpairs. This is the one place the build and the
+ * solve are chosen (threads, matrix-free), so every command gets the same behaviour.
+ */
+export function projectAndSolve(hamiltonian: PauliSum, basis: Basis, sector: Sector, settings: SolverSettings = {}): Projection {
+  const t0 = performance.now();
+  const groups = groupByFlipMask(hamiltonian, basis.nWords);
+  const matrix = buildProjectedHamiltonian(basis, groups, compileSector(sector, basis.qubits, basis.nWords));
+  const t1 = performance.now();
+  const eigen = lanczos(matrixOperator(matrix), {
+    eigs: settings.eigs ?? 1,
+    tol: settings.tol ?? LANCZOS_DEFAULTS.tol,
+    seed: settings.seed ?? LANCZOS_DEFAULTS.seed,
+    start: settings.start,
+  });
+  const t2 = performance.now();
+  return { matrix, eigen, timings: { build: (t1 - t0) / 1000, solve: (t2 - t1) / 1000 } };
+}
+
 /** Read the Hamiltonian and dumps, select the subspace, build H_S and find its lowest eigenpairs. */
 export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   const t0 = performance.now();
@@ -130,21 +165,19 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     return now;
   };
   const hamiltonian = await readHamiltonian(opts.hamiltonian);
-  let t = lap('readHamiltonian', t0);
+  const t = lap('readHamiltonian', t0);
   const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format });
-  t = lap('readSamples', t);
+  const tSamples = lap('readSamples', t);
   checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
   const { basis, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim });
-  t = lap('filter', t);
-  const groups = groupByFlipMask(hamiltonian, samples.nWords);
-  const matrix = buildProjectedHamiltonian(basis, groups, compileSector(sector, samples.qubits, samples.nWords));
-  t = lap('build', t);
+  lap('filter', tSamples);
   const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
   const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
-  const eigen = lanczos(matrixOperator(matrix), { eigs: opts.eigs ?? 1, tol, seed });
-  t = lap('solve', t);
-  timings.total = (t - t0) / 1000;
+  const { matrix, eigen, timings: pt } = projectAndSolve(hamiltonian, basis, sector, { eigs: opts.eigs, tol, seed });
+  timings.build = pt.build;
+  timings.solve = pt.solve;
+  timings.total = (performance.now() - t0) / 1000;
   const result: SolveReport = {
     command: 'solve',
     qubits: samples.qubits,
