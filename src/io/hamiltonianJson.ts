@@ -2,18 +2,11 @@ import { BitspanError } from '../errors.js';
 import { MAX_QUBITS } from './bitstringParser.js';
 import { PauliSumBuilder, type PauliSum } from '../operators/pauliSum.js';
 import { parseCoefficient, parsePauliOps } from './hamiltonianText.js';
+import { parseJsonLocated } from './jsonSyntax.js';
 
 /** Parse the JSON form `{"qubits": N, "terms": [{"coeff": 0.25, "ops": "X0 X1"}]}`. */
 export function parseHamiltonianJson(text: string, file: string): PauliSum {
-  let doc: unknown;
-  try {
-    doc = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
-  } catch (e) {
-    const msg = (e as Error).message;
-    const pos = /position (\d+)/.exec(msg);
-    const line = pos ? text.slice(0, Number(pos[1])).split('\n').length : undefined;
-    throw new BitspanError('bad-hamiltonian', `invalid JSON: ${msg.replace(/\s+/g, ' ').slice(0, 120)}`, 'check brackets, commas and quotes', { file, line });
-  }
+  const doc = parseJsonLocated(text, file, 'bad-hamiltonian', 'check brackets, commas and quotes');
   const fail = (what: string, hint: string): never => {
     throw new BitspanError('bad-hamiltonian', what, hint, { file });
   };
