@@ -4,7 +4,7 @@ products of 2x2 Paulis (a construction that shares no code with the peer). Exits
 
 1. 4x4 periodic Heisenberg, H = sum over bonds of XX + YY + ZZ, every weight-8 configuration
    sampled (12870, with split rows and off-sector rows): energy = full-space ground energy.
-2. The same, embedded in 100 qubits with bonds across the 64-bit word boundary.
+2. The same, embedded in 100, 128 and 160 qubits with bonds across 64-bit word boundaries.
 3. A complex Hamiltonian (odd numbers of Y, a constant, repeated like terms) on a random
    subset of configurations: energy = lowest eigenvalue of the dense projection P H P.
 4. If dist/bench/make-case.js exists: the TypeScript generator's 4x4 case gives the same energy.
@@ -143,20 +143,22 @@ def main():
     check("4x4 all 12870 configurations", r["energy"], e_full, 1e-7)
     print(f"     residual {r['residual']:.2e}, matvecs {r['matvecs']}, nonzeros {r['nonzeros']}")
 
-    # 2. embedded in 100 qubits: active qubit q sits at 6q + 3, bonds straddle bit 64
-    pos = [6 * q + 3 for q in range(n)]
-    spare = [p for p in range(100) if p not in pos]
-    fixed = sum(1 << p for p in spare[::7])
-    k100 = n // 2 + bin(fixed).count("1")
-    big = [fixed | sum(1 << pos[q] for q in range(n) if (s >> q) & 1) for s in sector]
-    ham = os.path.join(tmp, "h100.txt")
-    csv = os.path.join(tmp, "s100.csv")
-    with open(ham, "w") as fh:
-        fh.write(hamiltonian_text(heisenberg_terms(L, lambda q: pos[q]), 100))
-    write_csv(csv, big, 100, rng)
-    r = run_peer(ham, csv, k100)
-    check("100-qubit embedding (two words), dimension", r["dimension"], 12870, 0)
-    check("100-qubit embedding (two words)", r["energy"], e_full, 1e-7)
+    # 2. embedded in wider registers: active qubit q sits at stride*q + offset, so bonds straddle
+    #    word boundaries; 100 takes the two-word split path, 128 and 160 the byte-record path.
+    for width, stride, offset in ((100, 6, 3), (128, 8, 7), (160, 10, 9)):
+        pos = [stride * q + offset for q in range(n)]
+        spare = [p for p in range(width) if p not in pos]
+        fixed = sum(1 << p for p in spare[::7])
+        kw = n // 2 + bin(fixed).count("1")
+        big = [fixed | sum(1 << pos[q] for q in range(n) if (s >> q) & 1) for s in sector]
+        ham = os.path.join(tmp, f"h{width}.txt")
+        csv = os.path.join(tmp, f"s{width}.csv")
+        with open(ham, "w") as fh:
+            fh.write(hamiltonian_text(heisenberg_terms(L, lambda q: pos[q]), width))
+        write_csv(csv, big, width, rng)
+        r = run_peer(ham, csv, kw)
+        check(f"{width}-qubit embedding, dimension", r["dimension"], 12870, 0)
+        check(f"{width}-qubit embedding", r["energy"], e_full, 1e-7)
 
     # 3. complex Hamiltonian on a sampled subset; reference = dense P H P from the Kronecker H
     extra = [

@@ -18,12 +18,30 @@ import resource  # noqa: E402
 import sys  # noqa: E402
 import time  # noqa: E402
 
+def _keep_freed_memory():
+    """Stop glibc handing multi-MB numpy temporaries back to the kernel after each op.
+
+    Otherwise every temporary is a fresh mmap whose pages fault (and, with transparent huge
+    pages, get zeroed) again; on this machine that made elementwise ops ~10x slower.
+    """
+    try:
+        import ctypes
+
+        libc = ctypes.CDLL("libc.so.6")
+        libc.mallopt(-3, 1 << 30)  # M_MMAP_THRESHOLD
+        libc.mallopt(-1, 1 << 30)  # M_TRIM_THRESHOLD
+    except (OSError, AttributeError):
+        pass
+
+
+if os.environ.get("BITSPAN_PEER_MALLOC_TUNING", "1") != "0":
+    _keep_freed_memory()
+
 import numpy as np  # noqa: E402
 import scipy.sparse as sp  # noqa: E402
 import scipy.sparse.linalg as spla  # noqa: E402
 
 U64 = np.uint64
-ROWS_PER_CHUNK = 1 << 18  # bounds the (rows x width) byte gather to a few tens of MB
 
 
 class InputError(Exception):
@@ -46,19 +64,6 @@ else:  # older numpy: SWAR popcount on uint64
         return ((x * U64(0x0101010101010101)) >> U64(56)).astype(np.uint8)
 
 
-def parity_and(states, mask_words):
-    """Parity of popcount(state & mask) for each row of states (n, W); returns uint8 0/1."""
-    acc = None
-    for w, m in enumerate(mask_words):
-        if m == 0:
-            continue
-        x = states[:, w] & U64(m)
-        acc = x if acc is None else acc ^ x
-    if acc is None:
-        return np.zeros(states.shape[0], dtype=np.uint8)
-    return popcount(acc) & np.uint8(1)
-
-
 def split_words(mask, nwords):
     """Python int bit mask -> list of nwords uint64 ints, most significant word first."""
     return [(mask >> (64 * (nwords - 1 - w))) & 0xFFFFFFFFFFFFFFFF for w in range(nwords)]
@@ -67,74 +72,134 @@ def split_words(mask, nwords):
 # ---------------------------------------------------------------- reading samples
 
 
-def read_samples(path):
-    """Returns (states (rows, W) uint64 most significant word first, counts int64, width)."""
-    buf = np.fromfile(path, dtype=np.uint8)
-    if buf.size == 0:
-        raise InputError(f"{path}: empty file")
-    nl = np.flatnonzero(buf == 10)
-    if nl.size == 0 or nl[-1] != buf.size - 1:
-        nl = np.append(nl, buf.size)  # last line without newline
-    starts = np.empty_like(nl)
-    starts[0] = 0
-    starts[1:] = nl[:-1] + 1
-    ends = nl.copy()
-    cr = ends > starts
-    cr[cr] = buf[ends[cr] - 1] == 13
-    ends[cr] -= 1
-    keep = ends > starts  # blank lines
-    starts, ends = starts[keep], ends[keep]
-    if starts.size == 0:
-        raise InputError(f"{path}: no rows")
-    if buf[starts[0]] not in (48, 49):  # header line such as "bitstring,count"
-        starts, ends = starts[1:], ends[1:]
-    if starts.size == 0:
-        raise InputError(f"{path}: header only")
-    first = bytes(buf[starts[0]:ends[0]])
-    width = first.find(b",")
-    if width <= 0:
-        raise InputError(f"{path}: first row has no comma: {first[:80]!r}")
-    nwords = (width + 63) // 64
-    pad = 64 * nwords - width
-    if np.any(ends - starts < width + 2) or np.any(buf[starts + width] != 44):
-        raise InputError(f"{path}: bitstrings do not all have width {width}")
+ASCII0 = 0x3030303030303030  # eight '0' characters read as one little-endian uint64
+LOW_BITS = 0x0101010101010101
+GATHER = 0x8040201008040201  # (x * GATHER) >> 56 packs the low bits of x's 8 bytes, byte 0 first
 
-    rows = starts.size
-    states = np.empty((rows, nwords), dtype=U64)
-    counts = np.zeros(rows, dtype=np.int64)
-    col = np.arange(width, dtype=np.int64)
-    for a in range(0, rows, ROWS_PER_CHUNK):
-        s = starts[a:a + ROWS_PER_CHUNK]
-        e = ends[a:a + ROWS_PER_CHUNK]
-        chars = buf[s[:, None] + col]
-        chars -= 48
-        if np.any(chars > 1):
-            raise InputError(f"{path}: bitstring characters other than 0/1")
-        if pad:
-            chars = np.concatenate([np.zeros((chars.shape[0], pad), np.uint8), chars], axis=1)
-        packed = np.packbits(chars, axis=1, bitorder="big")  # char 0 = highest qubit
-        states[a:a + ROWS_PER_CHUNK] = packed.view(">u8").astype(U64)
-        # Counts: up to maxlen ASCII digits after the comma, Horner-style per column.
-        p0 = s + width + 1
-        lens = e - p0
-        maxlen = int(lens.max())
-        if maxlen > 18:
-            raise InputError(f"{path}: count field too long")
-        val = np.zeros(s.size, dtype=np.int64)
-        for d in range(maxlen):
-            live = d < lens
-            c = buf[np.where(live, p0 + d, p0)].astype(np.int64) - 48
-            if np.any(live & ((c < 0) | (c > 9))):
-                raise InputError(f"{path}: count is not a non-negative integer")
-            val = np.where(live, val * 10 + c, val)
-        counts[a:a + ROWS_PER_CHUNK] = val
-    return states, counts, width
+
+def _parse_block(area, starts, ends, width, nwords, where):
+    """Rows whose bitstring/count bytes lie in `area`; returns (states (rows, W), counts)."""
+    nb = 8 * nwords
+    # Every byte offset as an (unaligned, overlapping) uint64: element i = bytes i..i+7.
+    v8 = np.ndarray(shape=(area.size - 7,), dtype="<u8", buffer=area, strides=(1,))
+    # Blocks of 8 characters ending exactly at the comma; leading blocks reach back before
+    # the row start (64 bytes of padding cover the first row) and get masked to '0'.
+    p0 = starts + (width - 8 * nb)
+    m = v8[p0[:, None] + np.arange(0, 8 * nb, 8)]
+    lead = 8 * nb - width
+    for k in range(nb):
+        g = min(8, max(0, lead - 8 * k))
+        if g:
+            low = (1 << (8 * g)) - 1
+            m[:, k] = (m[:, k] & U64(~low & 0xFFFFFFFFFFFFFFFF)) | U64(ASCII0 & low)
+    if np.any((m & U64(~LOW_BITS & 0xFFFFFFFFFFFFFFFF)) != U64(ASCII0)):
+        raise InputError(f"{where}: bitstring characters other than 0/1, or rows of different widths")
+    m -= U64(ASCII0)
+    m *= U64(GATHER)
+    m >>= U64(56)  # now one byte value per block, first character = most significant bit
+    m = m.reshape(-1, nwords, 8) << np.arange(56, -1, -8, dtype=U64)
+    states = np.bitwise_or.reduce(m, axis=2)
+    # Counts: the ASCII digits after the comma, Horner-style one digit column at a time.
+    if np.any(area[starts + width] != 44):
+        raise InputError(f"{where}: bitstrings do not all have width {width}")
+    p = starts + width + 1
+    lens = ends - p
+    if lens.min() < 1 or lens.max() > 18:
+        raise InputError(f"{where}: missing or oversized count")
+    counts = np.zeros(starts.size, dtype=np.int64)
+    for d in range(int(lens.max())):
+        live = d < lens
+        c = area[np.where(live, p + d, p)].astype(np.int64) - 48
+        if np.any(live & ((c < 0) | (c > 9))):
+            raise InputError(f"{where}: count is not a non-negative integer")
+        counts = np.where(live, counts * 10 + c, counts)
+    return states, counts
+
+
+def read_samples(path, block_bytes=8 << 20):
+    """Streams the CSV in blocks; returns (states (rows, W) uint64, word 0 most significant,
+    counts int64, width). Qubit 0 is the rightmost character."""
+    PAD = 64
+    width = None
+    parts_s, parts_c = [], []
+    carry = b""
+    header_checked = False
+    with open(path, "rb") as fh:
+        while True:
+            chunk = fh.read(block_bytes)
+            eof = not chunk
+            data = carry + chunk
+            if eof:
+                if not data:
+                    break
+                if not data.endswith(b"\n"):
+                    data += b"\n"
+                cut = len(data)
+            else:
+                cut = data.rfind(b"\n") + 1
+                if cut == 0:
+                    if len(data) > (1 << 26):
+                        raise InputError(f"{path}: no line break in 64 MiB")
+                    carry = data
+                    continue
+            carry = data[cut:]
+            area = np.empty(PAD + cut, dtype=np.uint8)
+            area[:PAD] = 48
+            area[PAD:] = np.frombuffer(data, dtype=np.uint8, count=cut)
+            nl = np.flatnonzero(area[PAD:] == 10) + PAD
+            starts = np.empty_like(nl)
+            starts[0] = PAD
+            starts[1:] = nl[:-1] + 1
+            ends = nl.copy()
+            cr = ends > starts
+            cr[cr] = area[ends[cr] - 1] == 13
+            ends[cr] -= 1
+            keep = ends > starts  # blank lines
+            starts, ends = starts[keep], ends[keep]
+            if not header_checked and starts.size:
+                header_checked = True
+                if area[starts[0]] not in (48, 49):  # e.g. "bitstring,count"
+                    starts, ends = starts[1:], ends[1:]
+            if starts.size == 0:
+                if eof:
+                    break
+                continue
+            if width is None:
+                first = bytes(area[starts[0]:ends[0]])
+                width = first.find(b",")
+                if width <= 0:
+                    raise InputError(f"{path}: first row has no comma: {first[:80]!r}")
+            st, ct = _parse_block(area, starts, ends, width, (width + 63) // 64, path)
+            parts_s.append(st)
+            parts_c.append(ct)
+            if eof:
+                break
+    if not parts_s:
+        raise InputError(f"{path}: no sample rows")
+    return np.concatenate(parts_s), np.concatenate(parts_c), width
+
+
+def _dense_rank(a):
+    """Rank of each value among the distinct values of a (0-based), and the number of them."""
+    o = np.argsort(a)
+    s = a[o]
+    new = np.ones(a.size, dtype=bool)
+    new[1:] = s[1:] != s[:-1]
+    r = np.empty(a.size, dtype=np.int64)
+    r[o] = np.cumsum(new) - 1
+    return r, int(r[o[-1]]) + 1
 
 
 def dedupe(states, counts):
     """Sorted distinct states with summed counts."""
     if states.shape[1] == 1:
         order = np.argsort(states[:, 0])
+    elif states.shape[1] == 2:
+        # Pack (rank of hi word, rank of lo word) into one int64: three fast 1-D argsorts
+        # instead of a lexsort or a sort of 16-byte records.
+        rh, _ = _dense_rank(states[:, 0])
+        rl, nl = _dense_rank(states[:, 1])
+        order = np.argsort(rh * nl + rl)
     else:
         order = np.lexsort(states.T[::-1])  # last key is primary: word 0
     s = states[order]
@@ -207,63 +272,129 @@ def build_matrix(basis, terms, nwords):
     is_complex = any(c.imag != 0 for c in terms.values())
     dtype = np.complex128 if is_complex else np.float64
     cast = (lambda c: c) if is_complex else (lambda c: c.real)
+    cols = [np.ascontiguousarray(basis[:, w]) for w in range(nwords)]  # one 1-D array per word
 
+    def parity(sel, zw):
+        """popcount(state & z) mod 2 over the selected rows (None = all), as uint8."""
+        acc = None
+        for w, m in enumerate(zw):
+            if m:
+                x = (cols[w] if sel is None else cols[w][sel]) & U64(m)
+                acc = x if acc is None else acc ^ x
+        if acc is None:
+            return None
+        return popcount(acc) & np.uint8(1)
+
+    # diag = sum c (1 - 2 parity) = sum c - 2 sum c parity
     diag = np.zeros(n, dtype=dtype)
     by_flip = {}
     for (x, z), c in terms.items():
         if x == 0:
-            if z == 0:
-                diag += cast(c)
-            else:
-                diag += cast(c) * (1.0 - 2.0 * parity_and(basis, split_words(z, nwords)))
+            diag += cast(c)
+            if z:
+                diag -= (2 * cast(c)) * parity(None, split_words(z, nwords))
         else:
             by_flip.setdefault(x, []).append((split_words(z, nwords), cast(c)))
 
+    MISS = U64(0xFFFFFFFFFFFFFFFF)
+    split = 0
+    if nwords == 2:
+        # Two words: split the state into top = state >> b and the low b bits, with
+        # 64 - b bits enough to rank every distinct top. (rank(top) << b) | low is then one
+        # uint64 that is monotone in the sorted basis, and a flip that leaves the top alone
+        # needs no rank search at all.
+        split = 64 - max(1, n.bit_length())
+        if int(cols[0].max()) >> split:
+            split = 0  # too many qubits for this trick
     if nwords == 1:
-        keys = basis[:, 0]
+        keys = cols[0]
+    elif split:
+        sh, bmask = U64(split), U64((1 << split) - 1)
+        topv = (cols[0] << U64(64 - split)) | (cols[1] >> sh)
+        new = np.ones(n, dtype=bool)
+        new[1:] = topv[1:] != topv[:-1]
+        uniq_top = topv[new]
+        rank = (np.cumsum(new) - 1).astype(U64)
+        low = cols[1] & bmask
+        keys = (rank << sh) | low
     else:  # big-endian bytes compare like the numbers: lexicographic searchsorted on a void view
         keys = basis.astype(">u8").view(f"V{8 * nwords}").ravel()
 
-    rows, cols, vals = [np.arange(n)], [np.arange(n)], [diag]
+    def lookup(idx, fw):
+        """Positions in the basis of state[idx] ^ f, and which of them exist."""
+        if nwords == 1:
+            tkey = cols[0][idx] ^ U64(fw[0])
+        elif split:
+            if fw[0] >> split:  # sets a qubit that no basis state has
+                return idx, np.zeros(idx.size, dtype=bool)
+            ftop = ((fw[0] << (64 - split)) | (fw[1] >> split)) & 0xFFFFFFFFFFFFFFFF
+            if ftop == 0:
+                r = rank[idx]
+                known = None
+            else:
+                qtop = topv[idx] ^ U64(ftop)
+                r = np.searchsorted(uniq_top, qtop)
+                np.minimum(r, uniq_top.size - 1, out=r)
+                known = uniq_top[r] == qtop
+                r = r.astype(U64)
+            tkey = (r << sh) | (low[idx] ^ U64(fw[1] & ((1 << split) - 1)))
+            if known is not None:
+                tkey[~known] = MISS  # larger than every key, so a miss below
+        else:
+            tgt = np.empty((idx.size, nwords), dtype=">u8")
+            for w in range(nwords):
+                tgt[:, w] = cols[w][idx] ^ U64(fw[w])
+            tkey = tgt.view(f"V{8 * nwords}").ravel()
+        j = np.searchsorted(keys, tkey)
+        np.minimum(j, n - 1, out=j)
+        return j, keys[j] == tkey
+
+    rows, colidx, vals = [np.arange(n)], [np.arange(n)], [diag]
     for f, group in by_flip.items():
         fw = split_words(f, nwords)
-        top = f.bit_length() - 1
-        tw, tb = nwords - 1 - top // 64, top % 64
-        half2 = bin(f).count("1")
-        # Only s < s^f (top flipped bit is 0) and flips that keep the Hamming weight.
-        ok = ((basis[:, tw] >> U64(tb)) & U64(1)) == 0
-        pc = None
-        for w, m in enumerate(fw):
-            if m:
-                c = popcount(basis[:, w] & U64(m)).astype(np.int16)
-                pc = c if pc is None else pc + c
-        ok &= 2 * pc == half2
+        nflip = bin(f).count("1")
+        if nflip % 2:
+            continue  # an odd number of flips always changes the weight
+        # Keep s < s^f (top flipped bit is 0) and flips that keep the Hamming weight.
+        if nflip == 2:  # both at once: exactly the lower flipped bit is set
+            lw = split_words(f & -f, nwords)
+            ok = None
+            for w, m in enumerate(fw):
+                if m:
+                    t = (cols[w] & U64(m)) == U64(lw[w])
+                    ok = t if ok is None else ok & t
+        else:
+            top = f.bit_length() - 1
+            tw, tb = nwords - 1 - top // 64, top % 64
+            ok = ((cols[tw] >> U64(tb)) & U64(1)) == 0
+            pc = None
+            for w, m in enumerate(fw):
+                if m:
+                    c = popcount(cols[w] & U64(m))
+                    pc = c if pc is None else pc + c
+            ok &= pc == nflip // 2
         idx = np.flatnonzero(ok)
         if idx.size == 0:
             continue
-        src = basis[idx]
-        tgt = src ^ np.array(fw, dtype=U64)
-        if nwords == 1:
-            tkey = tgt[:, 0]
-        else:
-            tkey = tgt.astype(">u8").view(f"V{8 * nwords}").ravel()
-        j = np.searchsorted(keys, tkey)
-        jc = np.minimum(j, n - 1)
-        hit = keys[jc] == tkey
+        j, hit = lookup(idx, fw)
         if not hit.any():
             continue
-        i, j, src = idx[hit], jc[hit], src[hit]
+        i, j = idx[hit], j[hit]
         # <s^f| c X^f Z^z |s> = c (-1)^{popcount(s & z)}
         v = np.zeros(i.size, dtype=dtype)
         for zw, c in group:
-            v += c * (1.0 - 2.0 * parity_and(src, zw))
+            v += c
+            p = parity(i, zw)
+            if p is not None:
+                v -= (2 * c) * p
         nz = v != 0
-        i, j, v = i[nz], j[nz], v[nz]
+        if not nz.all():
+            i, j, v = i[nz], j[nz], v[nz]
         rows += [j, i]
-        cols += [i, j]
+        colidx += [i, j]
         vals += [v, np.conj(v) if is_complex else v]
     r = np.concatenate(rows)
-    c = np.concatenate(cols)
+    c = np.concatenate(colidx)
     v = np.concatenate(vals)
     keep = v != 0
     H = sp.csr_matrix((v[keep], (r[keep], c[keep])), shape=(n, n))
