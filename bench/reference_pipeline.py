@@ -357,7 +357,9 @@ def build_matrix(basis, terms, nwords):
         np.minimum(j, n - 1, out=j)
         return j, keys[j] == tkey
 
-    rows, colidx, vals = [np.arange(n)], [np.arange(n)], [diag]
+    itype = np.int32 if n < 2**31 else np.int64  # halves the index memory of the assembly
+    d = np.flatnonzero(diag).astype(itype)
+    rows, colidx, vals = [d], [d], [diag[d]]
     for f, group in by_flip.items():
         fw = split_words(f, nwords)
         nflip = bin(f).count("1")
@@ -387,7 +389,7 @@ def build_matrix(basis, terms, nwords):
         j, hit = lookup(idx, fw)
         if not hit.any():
             continue
-        i, j = idx[hit], j[hit]
+        i, j = idx[hit].astype(itype), j[hit].astype(itype)
         # <s^f| c X^f Z^z |s> = c (-1)^{popcount(s & z)}
         v = np.zeros(i.size, dtype=dtype)
         for zw, c in group:
@@ -402,10 +404,12 @@ def build_matrix(basis, terms, nwords):
         colidx += [i, j]
         vals += [v, np.conj(v) if is_complex else v]
     r = np.concatenate(rows)
+    del rows
     c = np.concatenate(colidx)
+    del colidx
     v = np.concatenate(vals)
-    keep = v != 0
-    H = sp.csr_matrix((v[keep], (r[keep], c[keep])), shape=(n, n))
+    del vals
+    H = sp.csr_matrix((v, (r, c)), shape=(n, n))  # coo -> csr: counting sort by row
     return H, is_complex
 
 
