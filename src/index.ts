@@ -18,7 +18,7 @@ export { selectSubspace, type SubspaceReport, type SampleAccount, type GroupAcco
 
 export { PauliSumBuilder, groupByFlipMask, isComplexHamiltonian, formatPauliOps, type PauliSum, type PauliTerm, type FlipGroups } from './operators/pauliSum.js';
 
-export { buildProjectedHamiltonian, buildRows, sectorFlipTest } from './build/projectedHamiltonian.js';
+export { buildProjectedHamiltonian, buildUpperRows, assembleHermitian, sectorFlipTest, type UpperPiece, type SectorFlipTest } from './build/projectedHamiltonian.js';
 export { csrApplyRows, joinRowPieces, nonzeros, toDense, type SparseMatrix, type SparseMatrixPiece } from './build/sparseMatrix.js';
 
 export { lanczos, LANCZOS_DEFAULTS, type LanczosOptions, type LanczosResult, type LinearOperator } from './solvers/lanczos.js';

@@ -1,4 +1,4 @@
-import { buildHashSlots, lookupConfig, slotCountFor } from './hashIndex.js';
+import { buildConfigFilter, buildHashSlots, filterWordsFor, lookupConfig, slotCountFor } from './hashIndex.js';
 
 /**
  * The sampled subspace: distinct configurations sorted as binary numbers, with a hash index.
@@ -14,6 +14,8 @@ export interface Basis {
   slots: Int32Array;
   /** Sampled weight (summed counts) of each configuration; zero for configurations added by expansion. */
   counts: Float64Array;
+  /** Blocked Bloom filter of the configurations (see `buildConfigFilter`). */
+  filter: Uint32Array;
 }
 
 /**
@@ -67,7 +69,8 @@ export function makeBasis(
     sortedCounts[i] = counts ? counts[src]! : 0;
   }
   const slots = buildHashSlots(sorted, count, nWords, new Int32Array(alloc(slotCountFor(count) * 4)));
-  return { qubits, nWords, dim: count, states: sorted, slots, counts: sortedCounts };
+  const filter = buildConfigFilter(sorted, count, nWords, new Uint32Array(alloc(filterWordsFor(count) * 4)));
+  return { qubits, nWords, dim: count, states: sorted, slots, counts: sortedCounts, filter };
 }
 
 /** Index of a configuration in the basis, or −1. */

@@ -61,3 +61,51 @@ export function lookupConfig(
     s = (s + 1) & mask;
   }
 }
+
+/**
+ * A blocked Bloom filter over the configurations' hashes: 512-bit lines, two bits per entry in one
+ * line, about 8 bits per entry (small enough to stay in a core's cache at D ~ 10^6). It answers "certainly absent" for most flipped configurations from
+ * cache, so the builder touches the large slot array only for the few that may be present.
+ */
+export function buildConfigFilter(states: Uint32Array, count: number, nWords: number, filter?: Uint32Array): Uint32Array {
+  const f = filter ?? new Uint32Array(filterWordsFor(count));
+  f.fill(0);
+  const lineMask = f.length / 16 - 1;
+  for (let i = 0; i < count; i++) {
+    const h = hashConfig(states, i * nWords, nWords);
+    const line = (h & lineMask) << 4;
+    const h2 = Math.imul(h ^ (h >>> 16), 0x9e3779b1);
+    f[line + ((h2 >>> 5) & 15)]! |= 1 << (h2 & 31);
+    f[line + ((h2 >>> 14) & 15)]! |= 1 << ((h2 >>> 9) & 31);
+  }
+  return f;
+}
+
+/** Words of filter storage for `count` entries (a power-of-two number of 16-word lines). */
+export function filterWordsFor(count: number): number {
+  let lines = 1;
+  while (lines * 512 < count * 8) lines *= 2;
+  return lines * 16;
+}
+
+/** False when the configuration with hash `h` is certainly not in the set the filter was built from. */
+export function filterMayContain(f: Uint32Array, h: number): boolean {
+  const line = (h & (f.length / 16 - 1)) << 4;
+  const h2 = Math.imul(h ^ (h >>> 16), 0x9e3779b1);
+  return ((f[line + ((h2 >>> 5) & 15)]! >>> (h2 & 31)) & (f[line + ((h2 >>> 14) & 15)]! >>> ((h2 >>> 9) & 31)) & 1) === 1;
+}
+
+/** Like `lookupConfig` but with the hash already computed. */
+export function lookupConfigHashed(states: Uint32Array, slots: Int32Array, nWords: number, query: Uint32Array, qOffset: number, h: number): number {
+  const mask = slots.length - 1;
+  let s = h & mask;
+  for (;;) {
+    const idx = slots[s]!;
+    if (idx === -1) return -1;
+    const base = idx * nWords;
+    let k = 0;
+    while (k < nWords && states[base + k] === query[qOffset + k]) k++;
+    if (k === nWords) return idx;
+    s = (s + 1) & mask;
+  }
+}

@@ -1,14 +1,16 @@
 import type { Basis } from '../bits/basis.js';
-import { lookupConfig } from '../bits/hashIndex.js';
+import { filterMayContain, hashConfig, lookupConfigHashed } from '../bits/hashIndex.js';
 import { popcount32 } from '../bits/packed.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
-import { joinRowPieces, type SparseMatrix, type SparseMatrixPiece } from './sparseMatrix.js';
+import type { SparseMatrix } from './sparseMatrix.js';
 
 /**
- * Per-group sector test data: a flip keeps a configuration a of the sector in it iff for every
- * constraint c, 2·popcount(a & flip & mask_c) = popcount(flip & mask_c), and the flip has even
- * weight when a parity is fixed. `groupAllowed` holds the part that does not depend on a.
+ * Per-group data for the row loop. A flip keeps a sector configuration a in the sector iff for
+ * every constraint c, 2·popcount(a & flip & mask_c) = popcount(flip & mask_c), and the flip has
+ * even weight when a parity is fixed; `groupAllowed` holds the part that does not depend on a.
+ * `topWord`/`topBit` locate the flip's highest bit: b = a ⊕ flip is larger than a (so lies in the
+ * upper triangle of the sorted basis) exactly when a has a 0 there.
  */
 export interface SectorFlipTest {
   constraints: number;
@@ -17,18 +19,29 @@ export interface SectorFlipTest {
   /** count × constraints × nWords: flip & mask_c. */
   flipMasked: Uint32Array;
   groupAllowed: Uint8Array;
+  topWord: Int32Array;
+  topBit: Uint32Array;
 }
 
-/** Precompute the sector test for every flip group (pass `undefined` for no sector). */
+/** Precompute the sector and ordering tests for every flip group (`undefined`: no sector). */
 export function sectorFlipTest(groups: FlipGroups, sector: CompiledSector | undefined): SectorFlipTest {
   const nWords = groups.nWords;
   const nc = sector ? sector.count : 0;
   const flipWeight = new Int32Array(groups.count * nc);
   const flipMasked = new Uint32Array(groups.count * nc * nWords);
   const groupAllowed = new Uint8Array(groups.count);
+  const topWord = new Int32Array(groups.count).fill(-1);
+  const topBit = new Uint32Array(groups.count);
   for (let g = 0; g < groups.count; g++) {
     let total = 0;
-    for (let k = 0; k < nWords; k++) total += popcount32(groups.flipMasks[g * nWords + k]!);
+    for (let k = 0; k < nWords; k++) {
+      const m = groups.flipMasks[g * nWords + k]!;
+      total += popcount32(m);
+      if (m !== 0) {
+        topWord[g] = k;
+        topBit[g] = (1 << (31 - Math.clz32(m))) >>> 0;
+      }
+    }
     let ok = !(sector && sector.parity >= 0 && total & 1);
     for (let c = 0; c < nc; c++) {
       let w = 0;
@@ -42,50 +55,70 @@ export function sectorFlipTest(groups: FlipGroups, sector: CompiledSector | unde
     }
     groupAllowed[g] = ok ? 1 : 0;
   }
-  return { constraints: nc, flipWeight, flipMasked, groupAllowed };
+  return { constraints: nc, flipWeight, flipMasked, groupAllowed, topWord, topBit };
 }
 
 /**
- * Build rows r0..r1 of H_S = P H P: for each row configuration a and flip group, the column is
- * b = a ⊕ flip, skipped early when b leaves the sector, then looked up in the basis hash index.
+ * Rows r0..r1 of the upper triangle of H_S = P H P (columns > row) plus the diagonal. Each
+ * unordered pair is looked up once; `assembleHermitian` mirrors it.
  */
-export function buildRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest, r0: number, r1: number): SparseMatrixPiece {
+export interface UpperPiece {
+  r0: number;
+  r1: number;
+  /** Diagonal per row (interleaved re, im when complex). */
+  diag: Float64Array;
+  /** End of row r0+i's entries within this piece. */
+  rowEnd: Int32Array;
+  cols: Int32Array;
+  values: Float64Array;
+}
+
+/**
+ * Build the upper-triangle rows r0..r1: for each row configuration a and flip group with b = a ⊕ flip
+ * above a, skip early when b leaves the sector or is certainly absent (Bloom filter), then look b
+ * up in the hash index; ⟨a|P|b⟩ = coeff · i^{#Y} · (−1)^{popcount(b & z)}.
+ */
+export function buildUpperRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest, r0: number, r1: number): UpperPiece {
   const nWords = basis.nWords;
-  const { states, slots } = basis;
-  const { flipMasks, termStart, zMasks, phaseRe, phaseIm, complex } = groups;
+  const { states, slots, filter } = basis;
+  const { flipMasks, termStart, zMasks, phaseRe, phaseIm, complex, constant } = groups;
+  const { flipWeight, flipMasked, groupAllowed, topWord, topBit } = test;
   const nc = test.constraints;
   const rows = r1 - r0;
-  let cap = Math.max(16, rows * 8);
+  let cap = Math.max(64, rows * 4);
   let cols = new Int32Array(cap);
   let values = new Float64Array(complex ? 2 * cap : cap);
-  const rowEnd = new Float64Array(rows);
+  const diag = new Float64Array(complex ? 2 * rows : rows);
+  const rowEnd = new Int32Array(rows);
   const b = new Uint32Array(nWords);
   let nnz = 0;
-  const diag = groups.count > 0 && isZeroMask(flipMasks, 0, nWords) ? 0 : -1;
+  const hasDiag = groups.count > 0 && topWord[0] === -1;
 
   for (let r = r0; r < r1; r++) {
     const aOff = r * nWords;
     const rowStart = nnz;
+    let dr = constant;
+    let di = 0;
     for (let g = 0; g < groups.count; g++) {
-      let col: number;
-      if (g === diag) {
-        col = r;
+      let col = r;
+      if (g === 0 && hasDiag) {
         for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]!;
       } else {
-        if (!test.groupAllowed[g]) continue;
+        if (groupAllowed[g] === 0 || (states[aOff + topWord[g]!]! & topBit[g]!) !== 0) continue;
         let stays = true;
         for (let c = 0; c < nc && stays; c++) {
           let w = 0;
           const mOff = (g * nc + c) * nWords;
-          for (let k = 0; k < nWords; k++) w += popcount32(states[aOff + k]! & test.flipMasked[mOff + k]!);
-          stays = 2 * w === test.flipWeight[g * nc + c];
+          for (let k = 0; k < nWords; k++) w += popcount32(states[aOff + k]! & flipMasked[mOff + k]!);
+          stays = 2 * w === flipWeight[g * nc + c];
         }
         if (!stays) continue;
         for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]! ^ flipMasks[g * nWords + k]!;
-        col = lookupConfig(states, slots, nWords, b, 0);
+        const h = hashConfig(b, 0, nWords);
+        if (!filterMayContain(filter, h)) continue;
+        col = lookupConfigHashed(states, slots, nWords, b, 0, h);
         if (col < 0) continue;
       }
-      // ⟨a|P|b⟩ = coeff · i^{#Y} · (−1)^{popcount(b & z)}
       let vr = 0;
       let vi = 0;
       for (let t = termStart[g]!; t < termStart[g + 1]!; t++) {
@@ -99,7 +132,11 @@ export function buildRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest
           vi += phaseIm[t]!;
         }
       }
-      if (g === diag) vr += groups.constant;
+      if (col === r) {
+        dr += vr;
+        di += vi;
+        continue;
+      }
       if (vr === 0 && vi === 0) continue;
       if (nnz === cap) {
         cap *= 2;
@@ -117,39 +154,77 @@ export function buildRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest
       } else values[nnz] = vr;
       nnz++;
     }
-    if (diag < 0 && groups.constant !== 0) {
-      // No diagonal Pauli terms but a constant: still a diagonal entry.
-      if (nnz === cap) {
-        cap *= 2;
-        const c2 = new Int32Array(cap);
-        c2.set(cols);
-        cols = c2;
-        const v2 = new Float64Array(complex ? 2 * cap : cap);
-        v2.set(values);
-        values = v2;
-      }
-      cols[nnz] = r;
-      if (complex) {
-        values[2 * nnz] = groups.constant;
-        values[2 * nnz + 1] = 0;
-      } else values[nnz] = groups.constant;
-      nnz++;
-    }
+    if (complex) {
+      diag[2 * (r - r0)] = dr;
+      diag[2 * (r - r0) + 1] = di;
+    } else diag[r - r0] = dr;
     sortRow(cols, values, rowStart, nnz, complex);
     rowEnd[r - r0] = nnz;
   }
-  return { r0, r1, rowEnd, cols: cols.slice(0, nnz), values: values.slice(0, complex ? 2 * nnz : nnz) };
+  return { r0, r1, diag, rowEnd, cols: cols.slice(0, nnz), values: values.slice(0, complex ? 2 * nnz : nnz) };
 }
 
-/** Build the whole projected Hamiltonian on one thread. */
+/**
+ * Join upper-triangle pieces (in row order) into the full Hermitian CSR matrix: each row holds
+ * its mirrored lower entries, the diagonal, then its upper entries, so columns stay ascending.
+ */
+export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPiece[]): SparseMatrix {
+  const lower = new Int32Array(dim);
+  let upper = 0;
+  for (const p of pieces) {
+    for (let e = 0; e < p.cols.length; e++) lower[p.cols[e]!]!++;
+    upper += p.cols.length;
+  }
+  const nnz = 2 * upper + dim;
+  const rowPtr = new Float64Array(dim + 1);
+  const lowerPos = new Int32Array(dim);
+  let at = 0;
+  for (const p of pieces) {
+    for (let r = p.r0; r < p.r1; r++) {
+      const inRow = p.rowEnd[r - p.r0]! - (r === p.r0 ? 0 : p.rowEnd[r - p.r0 - 1]!);
+      rowPtr[r] = at;
+      lowerPos[r] = at;
+      at += lower[r]! + 1 + inRow;
+    }
+  }
+  rowPtr[dim] = at;
+  const cols = new Int32Array(nnz);
+  const values = new Float64Array(complex ? 2 * nnz : nnz);
+  for (const p of pieces) {
+    let e = 0;
+    for (let r = p.r0; r < p.r1; r++) {
+      const i = r - p.r0;
+      let pos = rowPtr[r]! + lower[r]!;
+      cols[pos] = r;
+      if (complex) {
+        values[2 * pos] = p.diag[2 * i]!;
+        values[2 * pos + 1] = p.diag[2 * i + 1]!;
+      } else values[pos] = p.diag[i]!;
+      pos++;
+      for (const end = p.rowEnd[i]!; e < end; e++, pos++) {
+        const c = p.cols[e]!;
+        cols[pos] = c;
+        const lp = lowerPos[c]!++;
+        cols[lp] = r;
+        if (complex) {
+          values[2 * pos] = p.values[2 * e]!;
+          values[2 * pos + 1] = p.values[2 * e + 1]!;
+          values[2 * lp] = p.values[2 * e]!;
+          values[2 * lp + 1] = -p.values[2 * e + 1]!;
+        } else {
+          values[pos] = p.values[e]!;
+          values[lp] = p.values[e]!;
+        }
+      }
+    }
+  }
+  return { dim, complex, rowPtr, cols, values };
+}
+
+/** Build the whole projected Hamiltonian on the calling thread. */
 export function buildProjectedHamiltonian(basis: Basis, groups: FlipGroups, sector: CompiledSector | undefined): SparseMatrix {
-  const piece = buildRows(basis, groups, sectorFlipTest(groups, sector), 0, basis.dim);
-  return joinRowPieces(basis.dim, groups.complex, [piece]);
-}
-
-function isZeroMask(m: Uint32Array, g: number, nWords: number): boolean {
-  for (let k = 0; k < nWords; k++) if (m[g * nWords + k] !== 0) return false;
-  return true;
+  const piece = buildUpperRows(basis, groups, sectorFlipTest(groups, sector), 0, basis.dim);
+  return assembleHermitian(basis.dim, groups.complex, [piece]);
 }
 
 // Rows hold a few dozen entries: insertion sort by column keeps the output order deterministic.

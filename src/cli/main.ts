@@ -2,6 +2,7 @@ import { Command, CommanderError } from 'commander';
 import { BitspanError, exitStatusFor } from '../errors.js';
 import { solveCommand } from './commands/solve.js';
 import type { CliIo } from './io.js';
+import { closeThreadPools } from '../parallel/threadPool.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
 const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand];
@@ -27,6 +28,8 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     return 0;
   } catch (e) {
     return reportError(e, io);
+  } finally {
+    await closeThreadPools();
   }
 }
 

@@ -4,6 +4,7 @@ import { ConfigTable } from '../bits/configTable.js';
 import { BitstringParser, type Qubit0 } from './bitstringParser.js';
 import { checkReadable } from './lines.js';
 import { readSamplesCsv } from './samplesCsv.js';
+import { NeedsFullCsv, readSamplesCsvFast } from './samplesCsvFast.js';
 import { readSamplesJson } from './samplesJson.js';
 import { readSamplesText } from './samplesText.js';
 
@@ -46,18 +47,24 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     let shots = 0;
     const sink = {
       add(words: Uint32Array, count: number): void {
-        table ??= new ConfigTable(parser.nWords);
+        table ??= new ConfigTable(parser.nWords, 1 << 14);
         table.add(words, 0, count);
         shots += count;
       },
     };
     const format = resolveFormat(file, opts.format ?? 'auto');
-    const rows =
-      format === 'csv'
-        ? await readSamplesCsv(file, parser, sink)
-        : format === 'json'
-          ? await readSamplesJson(file, parser, sink)
-          : await readSamplesText(file, parser, sink);
+    let rows: number;
+    if (format === 'csv') {
+      try {
+        rows = await readSamplesCsvFast(file, parser, sink);
+      } catch (e) {
+        if (!(e instanceof NeedsFullCsv)) throw e;
+        // Quoted fields: start this file again with the general CSV reader.
+        table = undefined;
+        shots = 0;
+        rows = await readSamplesCsv(file, parser, sink);
+      }
+    } else rows = format === 'json' ? await readSamplesJson(file, parser, sink) : await readSamplesText(file, parser, sink);
     if (rows === 0 || !table) {
       throw new BitspanError('file-empty', 'sample file holds no samples', 'give at least one bitstring row', { file });
     }

@@ -1,7 +1,8 @@
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
 import { formatBitstring } from '../bits/packed.js';
-import { buildProjectedHamiltonian } from '../build/projectedHamiltonian.js';
+import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
+import { defaultThreads } from '../parallel/threadPool.js';
 import { csrApplyRows, nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
@@ -26,6 +27,9 @@ export interface SolveOptions {
   format?: SampleFormat;
   /** Most probable configurations of the ground state to report. */
   top?: number;
+  threads?: number;
+  onBuildProgress?: SolverSettings['onBuildProgress'];
+  onSolveProgress?: SolverSettings['onSolveProgress'];
 }
 
 /** The JSON `solve --json` prints: every energy travels with its residual and its subspace. */
@@ -42,6 +46,7 @@ export interface SolveReport {
   matvecs: number;
   tolerance: number;
   seed: number;
+  threads: number;
   hamiltonian: { file: string; terms: number; constant: number; qubits: number };
   samples: SubspaceReport;
   sector: SectorReport;
@@ -127,6 +132,11 @@ export interface SolverSettings {
   seed?: number;
   /** Optional start vector for Lanczos (e.g. a saved state). */
   start?: Float64Array;
+  /** Worker threads for the build (default: the machine's cores). */
+  threads?: number;
+  /** Progress of the build (rows) and of the solve (matrix-vector products, residual). */
+  onBuildProgress?: (rowsDone: number, rows: number) => void;
+  onSolveProgress?: (info: { matvecs: number; residual: number; energy: number }) => void;
 }
 
 /** The projected matrix, its eigenpairs and how long each took. */
@@ -140,16 +150,18 @@ export interface Projection {
  * Build H_S on `basis` and find its lowest eigenpairs. This is the one place the build and the
  * solve are chosen (threads, matrix-free), so every command gets the same behaviour.
  */
-export function projectAndSolve(hamiltonian: PauliSum, basis: Basis, sector: Sector, settings: SolverSettings = {}): Projection {
+export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, sector: Sector, settings: SolverSettings = {}): Promise<Projection> {
   const t0 = performance.now();
   const groups = groupByFlipMask(hamiltonian, basis.nWords);
-  const matrix = buildProjectedHamiltonian(basis, groups, compileSector(sector, basis.qubits, basis.nWords));
+  const threads = settings.threads ?? defaultThreads();
+  const matrix = await buildProjectedHamiltonianParallel(basis, groups, compileSector(sector, basis.qubits, basis.nWords), threads, settings.onBuildProgress);
   const t1 = performance.now();
   const eigen = lanczos(matrixOperator(matrix), {
     eigs: settings.eigs ?? 1,
     tol: settings.tol ?? LANCZOS_DEFAULTS.tol,
     seed: settings.seed ?? LANCZOS_DEFAULTS.seed,
     start: settings.start,
+    onProgress: settings.onSolveProgress,
   });
   const t2 = performance.now();
   return { matrix, eigen, timings: { build: (t1 - t0) / 1000, solve: (t2 - t1) / 1000 } };
@@ -170,11 +182,19 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   const tSamples = lap('readSamples', t);
   checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
-  const { basis, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim });
+  const threads = opts.threads ?? defaultThreads();
+  const { basis, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: threads > 1 });
   lap('filter', tSamples);
   const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
   const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
-  const { matrix, eigen, timings: pt } = projectAndSolve(hamiltonian, basis, sector, { eigs: opts.eigs, tol, seed });
+  const { matrix, eigen, timings: pt } = await projectAndSolve(hamiltonian, basis, sector, {
+    eigs: opts.eigs,
+    tol,
+    seed,
+    threads,
+    onBuildProgress: opts.onBuildProgress,
+    onSolveProgress: opts.onSolveProgress,
+  });
   timings.build = pt.build;
   timings.solve = pt.solve;
   timings.total = (performance.now() - t0) / 1000;
@@ -194,6 +214,7 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     hamiltonian: { file: opts.hamiltonian, terms: hamiltonian.terms.length, constant: hamiltonian.constant, qubits: hamiltonian.qubits },
     samples: report,
     sector: sectorReport(sector, samples.qubits, opts.minCount, opts.maxDim),
+    threads,
     timings,
     groundState: { top: topConfigurations(basis, eigen.vectors[0]!, matrix.complex, opts.top ?? 10, opts.qubit0) },
   };

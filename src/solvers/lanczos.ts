@@ -1,4 +1,5 @@
 import { seededUniform } from '../util/random.js';
+import { lanczosTwoPass } from './lanczosTwoPass.js';
 import { symmetricEigen } from './symmetricEigen.js';
 import { axpy, dot, norm, orthogonalize, scale } from './vectorOps.js';
 
@@ -24,6 +25,12 @@ export interface LanczosOptions {
   maxBasis: number;
   /** Stop after this many operator applications even if not converged. */
   maxMatvecs: number;
+  /**
+   * `two-pass` keeps three vectors (plain Lanczos, then a replay for the eigenvector) and falls back
+   * to thick restart if its residual is not small enough; `auto` uses it for one eigenpair of a
+   * large operator, where orthogonalisation would dominate the cost.
+   */
+  strategy: 'auto' | 'thick-restart' | 'two-pass';
   /** Optional start vector (length dim, or 2·dim complex); random otherwise. */
   start?: Float64Array;
   /** Called after each restart with the current residual of the lowest wanted pair. */
@@ -36,7 +43,11 @@ export const LANCZOS_DEFAULTS: Omit<LanczosOptions, 'start' | 'onProgress'> = {
   seed: 1,
   maxBasis: 0, // 0: chosen from eigs
   maxMatvecs: 100000,
+  strategy: 'auto',
 };
+
+/** Dimension from which `auto` picks the two-pass strategy for a single eigenpair. */
+export const TWO_PASS_MIN_DIM = 50000;
 
 /** Eigenpairs and convergence data; solvers report rather than throw when not converged. */
 export interface LanczosResult {
@@ -72,6 +83,20 @@ interface PartialResult {
 export function lanczos(op: LinearOperator, options: Partial<LanczosOptions> = {}): LanczosResult {
   const opts: LanczosOptions = { ...LANCZOS_DEFAULTS, ...options };
   const n = op.dim;
+  const twoPass = opts.strategy === 'two-pass' || (opts.strategy === 'auto' && opts.eigs === 1 && n >= TWO_PASS_MIN_DIM);
+  if (twoPass && opts.eigs === 1) {
+    const r = lanczosTwoPass(op, {
+      tol: opts.tol,
+      seed: opts.seed,
+      maxIterations: Math.min(opts.maxMatvecs, 3000),
+      start: opts.start,
+      onProgress: opts.onProgress ? (p) => opts.onProgress!({ ...p, restarts: 0 }) : undefined,
+    });
+    if (r.converged) return r;
+    // Rounding spoilt the replayed vector: polish it with thick restart, starting from it.
+    const polished = lanczos(op, { ...options, strategy: 'thick-restart', start: r.vectors[0], maxMatvecs: Math.max(1, opts.maxMatvecs - r.matvecs) });
+    return { ...polished, iterations: polished.iterations + r.iterations, matvecs: polished.matvecs + r.matvecs };
+  }
   const want = Math.min(opts.eigs, n);
   const rng = seededUniform(opts.seed);
   const counter = { matvecs: 0 };

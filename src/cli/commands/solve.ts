@@ -5,6 +5,7 @@ import type { CliIo } from '../io.js';
 import { positiveInt } from '../parse.js';
 import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags } from '../sectorOptions.js';
 import { solveSummary } from '../summary.js';
+import { progressFor } from '../progress.js';
 
 interface SolveFlags extends SampleFlags {
   hamiltonian: string;
@@ -15,6 +16,7 @@ interface SolveFlags extends SampleFlags {
   json?: boolean;
   out?: string;
   top: number;
+  threads?: number;
 }
 
 /** `bitspan solve`: the lowest energies of the Hamiltonian projected on the sampled configurations. */
@@ -26,9 +28,11 @@ export function solveCommand(io: CliIo): Command {
   addSolverOptions(cmd);
   cmd
     .option('--top <n>', 'most probable ground-state configurations to report', positiveInt('--top'), 10)
+    .option('--threads <n>', 'worker threads for the build (default: the machine\'s cores)', positiveInt('--threads'))
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
     .action(async (f: SolveFlags) => {
+      const progress = progressFor(io, Boolean(f.json));
       const { report } = await solve({
         hamiltonian: f.hamiltonian,
         samples: f.samples,
@@ -42,7 +46,10 @@ export function solveCommand(io: CliIo): Command {
         qubit0: f.qubit0,
         format: f.format,
         top: f.top,
-      });
+        threads: f.threads,
+        onBuildProgress: (d, t) => progress.build(d, t),
+        onSolveProgress: (i) => progress.solve(i),
+      }).finally(() => progress.stop());
       const json = JSON.stringify(report, null, 2) + '\n';
       if (f.out) await writeFileAtomic(f.out, json);
       io.stdout(f.json ? json : solveSummary(report));
