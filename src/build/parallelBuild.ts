@@ -45,5 +45,5 @@ export async function buildProjectedHamiltonianParallel(
     );
   }
   const pieces = await Promise.all(tasks);
-  return assembleHermitian(basis.dim, groups.complex, pieces);
+  return assembleHermitian(basis.dim, groups.complex, pieces, true);
 }

@@ -74,70 +74,81 @@ export interface UpperPiece {
 }
 
 /**
- * Build the upper-triangle rows r0..r1: for each row configuration a and flip group with b = a ⊕ flip
- * above a, skip early when b leaves the sector or is certainly absent (Bloom filter), then look b
- * up in the hash index; ⟨a|P|b⟩ = coeff · i^{#Y} · (−1)^{popcount(b & z)}.
+ * The entry of row a (at `aOff` in the basis) produced by flip group g when it lies on the diagonal
+ * or in the upper triangle: returns the column (−1 when b = a ⊕ flip is below a, leaves the sector,
+ * or is not sampled) and writes ⟨a|H_g|b⟩ = Σ_t coeff_t · i^{#Y} · (−1)^{popcount(b & z_t)} to
+ * out[0] (re) and out[1] (im). The Bloom filter rejects most absent b before the hash lookup.
+ */
+export function upperEntry(basis: Basis, groups: FlipGroups, test: SectorFlipTest, row: number, g: number, b: Uint32Array, out: Float64Array): number {
+  const nWords = basis.nWords;
+  const states = basis.states;
+  const aOff = row * nWords;
+  const topWord = test.topWord[g]!;
+  let col = row;
+  if (topWord < 0) {
+    for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]!;
+  } else {
+    if (test.groupAllowed[g] === 0 || (states[aOff + topWord]! & test.topBit[g]!) !== 0) return -1;
+    const nc = test.constraints;
+    for (let c = 0; c < nc; c++) {
+      let w = 0;
+      const mOff = (g * nc + c) * nWords;
+      for (let k = 0; k < nWords; k++) w += popcount32(states[aOff + k]! & test.flipMasked[mOff + k]!);
+      if (2 * w !== test.flipWeight[g * nc + c]) return -1;
+    }
+    for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]! ^ groups.flipMasks[g * nWords + k]!;
+    const h = hashConfig(b, 0, nWords);
+    if (!filterMayContain(basis.filter, h)) return -1;
+    col = lookupConfigHashed(states, basis.slots, nWords, b, 0, h);
+    if (col < 0) return -1;
+  }
+  const { termStart, zMasks, phaseRe, phaseIm } = groups;
+  let vr = 0;
+  let vi = 0;
+  for (let t = termStart[g]!; t < termStart[g + 1]!; t++) {
+    let par = 0;
+    for (let k = 0; k < nWords; k++) par ^= popcount32(b[k]! & zMasks[t * nWords + k]!);
+    if (par & 1) {
+      vr -= phaseRe[t]!;
+      vi -= phaseIm[t]!;
+    } else {
+      vr += phaseRe[t]!;
+      vi += phaseIm[t]!;
+    }
+  }
+  out[0] = vr;
+  out[1] = vi;
+  return col;
+}
+
+/**
+ * Build the upper-triangle rows r0..r1 (plus the diagonal) of H_S = P H P; each unordered pair
+ * is looked up once and `assembleHermitian` mirrors it.
  */
 export function buildUpperRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest, r0: number, r1: number): UpperPiece {
-  const nWords = basis.nWords;
-  const { states, slots, filter } = basis;
-  const { flipMasks, termStart, zMasks, phaseRe, phaseIm, complex, constant } = groups;
-  const { flipWeight, flipMasked, groupAllowed, topWord, topBit } = test;
-  const nc = test.constraints;
+  const complex = groups.complex;
   const rows = r1 - r0;
   let cap = Math.max(64, rows * 4);
   let cols = new Int32Array(cap);
   let values = new Float64Array(complex ? 2 * cap : cap);
   const diag = new Float64Array(complex ? 2 * rows : rows);
   const rowEnd = new Int32Array(rows);
-  const b = new Uint32Array(nWords);
+  const b = new Uint32Array(basis.nWords);
+  const v = new Float64Array(2);
   let nnz = 0;
-  const hasDiag = groups.count > 0 && topWord[0] === -1;
-
   for (let r = r0; r < r1; r++) {
-    const aOff = r * nWords;
     const rowStart = nnz;
-    let dr = constant;
+    let dr = groups.constant;
     let di = 0;
     for (let g = 0; g < groups.count; g++) {
-      let col = r;
-      if (g === 0 && hasDiag) {
-        for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]!;
-      } else {
-        if (groupAllowed[g] === 0 || (states[aOff + topWord[g]!]! & topBit[g]!) !== 0) continue;
-        let stays = true;
-        for (let c = 0; c < nc && stays; c++) {
-          let w = 0;
-          const mOff = (g * nc + c) * nWords;
-          for (let k = 0; k < nWords; k++) w += popcount32(states[aOff + k]! & flipMasked[mOff + k]!);
-          stays = 2 * w === flipWeight[g * nc + c];
-        }
-        if (!stays) continue;
-        for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]! ^ flipMasks[g * nWords + k]!;
-        const h = hashConfig(b, 0, nWords);
-        if (!filterMayContain(filter, h)) continue;
-        col = lookupConfigHashed(states, slots, nWords, b, 0, h);
-        if (col < 0) continue;
-      }
-      let vr = 0;
-      let vi = 0;
-      for (let t = termStart[g]!; t < termStart[g + 1]!; t++) {
-        let par = 0;
-        for (let k = 0; k < nWords; k++) par ^= popcount32(b[k]! & zMasks[t * nWords + k]!);
-        if (par & 1) {
-          vr -= phaseRe[t]!;
-          vi -= phaseIm[t]!;
-        } else {
-          vr += phaseRe[t]!;
-          vi += phaseIm[t]!;
-        }
-      }
+      const col = upperEntry(basis, groups, test, r, g, b, v);
+      if (col < 0) continue;
       if (col === r) {
-        dr += vr;
-        di += vi;
+        dr += v[0]!;
+        di += v[1]!;
         continue;
       }
-      if (vr === 0 && vi === 0) continue;
+      if (v[0] === 0 && v[1] === 0) continue;
       if (nnz === cap) {
         cap *= 2;
         const c2 = new Int32Array(cap);
@@ -149,9 +160,9 @@ export function buildUpperRows(basis: Basis, groups: FlipGroups, test: SectorFli
       }
       cols[nnz] = col;
       if (complex) {
-        values[2 * nnz] = vr;
-        values[2 * nnz + 1] = vi;
-      } else values[nnz] = vr;
+        values[2 * nnz] = v[0]!;
+        values[2 * nnz + 1] = v[1]!;
+      } else values[nnz] = v[0]!;
       nnz++;
     }
     if (complex) {
@@ -165,10 +176,48 @@ export function buildUpperRows(basis: Basis, groups: FlipGroups, test: SectorFli
 }
 
 /**
+ * Matrix-free y += H_S x over rows r0..r1: the same entries as the stored build, applied as they
+ * are found (each pair once, mirrored), so memory stays at the basis and a few vectors.
+ */
+export function applyUpperRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest, r0: number, r1: number, x: Float64Array, y: Float64Array): void {
+  const complex = groups.complex;
+  const b = new Uint32Array(basis.nWords);
+  const v = new Float64Array(2);
+  for (let r = r0; r < r1; r++) {
+    let dr = groups.constant;
+    for (let g = 0; g < groups.count; g++) {
+      const c = upperEntry(basis, groups, test, r, g, b, v);
+      if (c < 0) continue;
+      if (c === r) {
+        dr += v[0]!;
+        continue;
+      }
+      const vr = v[0]!;
+      if (!complex) {
+        y[r]! += vr * x[c]!;
+        y[c]! += vr * x[r]!;
+        continue;
+      }
+      const vi = v[1]!;
+      const xr = x[2 * r]!, xi = x[2 * r + 1]!, cr = x[2 * c]!, ci = x[2 * c + 1]!;
+      y[2 * r]! += vr * cr - vi * ci;
+      y[2 * r + 1]! += vr * ci + vi * cr;
+      // Lower entry is the conjugate.
+      y[2 * c]! += vr * xr + vi * xi;
+      y[2 * c + 1]! += vr * xi - vi * xr;
+    }
+    if (complex) {
+      y[2 * r]! += dr * x[2 * r]!;
+      y[2 * r + 1]! += dr * x[2 * r + 1]!;
+    } else y[r]! += dr * x[r]!;
+  }
+}
+
+/**
  * Join upper-triangle pieces (in row order) into the full Hermitian CSR matrix: each row holds
  * its mirrored lower entries, the diagonal, then its upper entries, so columns stay ascending.
  */
-export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPiece[]): SparseMatrix {
+export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPiece[], shared = false): SparseMatrix {
   const lower = new Int32Array(dim);
   let upper = 0;
   for (const p of pieces) {
@@ -176,7 +225,8 @@ export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPi
     upper += p.cols.length;
   }
   const nnz = 2 * upper + dim;
-  const rowPtr = new Float64Array(dim + 1);
+  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(bytes));
+  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
   const lowerPos = new Int32Array(dim);
   let at = 0;
   for (const p of pieces) {
@@ -188,8 +238,8 @@ export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPi
     }
   }
   rowPtr[dim] = at;
-  const cols = new Int32Array(nnz);
-  const values = new Float64Array(complex ? 2 * nnz : nnz);
+  const cols = new Int32Array(alloc(nnz * 4));
+  const values = new Float64Array(alloc((complex ? 2 * nnz : nnz) * 8));
   for (const p of pieces) {
     let e = 0;
     for (let r = p.r0; r < p.r1; r++) {

@@ -28,7 +28,7 @@ export function solveSummary(r: SolveReport): string {
     lines.push(`  ${g.file}: ${num(g.shots)} shots, ${g.distinct} distinct, ${g.kept} kept (${g.newKept} new), ${droppedText(g)}`);
   }
   lines.push(`sector: ${r.sector.description}${r.sector.minCount !== null ? `, min-count ${r.sector.minCount}` : ''}${r.sector.maxDim !== null ? `, max-dim ${r.sector.maxDim}` : ''}`);
-  lines.push(`projected Hamiltonian: dimension ${r.dimension}, ${r.nonzeros} nonzeros, ${r.complex ? 'complex Hermitian' : 'real symmetric'}`);
+  lines.push(`projected Hamiltonian: dimension ${r.dimension}, ${r.storage === 'stored' ? '' : '~'}${r.nonzeros} nonzeros, ${r.complex ? 'complex Hermitian' : 'real symmetric'}, ${r.storage} (${r.memory.reason})`);
   r.energies.forEach((e, i) => lines.push(energyLine(`E${i}`, e, r.residuals[i]!, r.dimension, r.sector.description)));
   lines.push(`Lanczos: ${r.iterations} iterations, ${r.matvecs} matrix-vector products, ${r.converged ? 'converged' : 'NOT converged'} (tol ${r.tolerance})`);
   if (r.groundState.top.length) {

@@ -2,6 +2,9 @@ import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
 import { formatBitstring } from '../bits/packed.js';
 import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
+import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
+import { applyUpperRows, sectorFlipTest } from '../build/projectedHamiltonian.js';
+import { MatvecTeam } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { csrApplyRows, nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
@@ -28,6 +31,8 @@ export interface SolveOptions {
   /** Most probable configurations of the ground state to report. */
   top?: number;
   threads?: number;
+  memoryBytes?: number;
+  matrixFree?: boolean;
   onBuildProgress?: SolverSettings['onBuildProgress'];
   onSolveProgress?: SolverSettings['onSolveProgress'];
 }
@@ -39,6 +44,9 @@ export interface SolveReport {
   dimension: number;
   nonzeros: number;
   complex: boolean;
+  /** `stored` CSR or `matrix-free` products. */
+  storage: 'stored' | 'matrix-free';
+  memory: { budgetBytes: number; estimatedBytes: number; reason: string };
   energies: number[];
   residuals: number[];
   converged: boolean;
@@ -66,7 +74,7 @@ export interface SectorReport {
 export interface SolveOutcome {
   report: SolveReport;
   basis: Basis;
-  matrix: SparseMatrix;
+  matrix?: SparseMatrix;
   hamiltonian: PauliSum;
   eigen: LanczosResult;
 }
@@ -132,16 +140,25 @@ export interface SolverSettings {
   seed?: number;
   /** Optional start vector for Lanczos (e.g. a saved state). */
   start?: Float64Array;
-  /** Worker threads for the build (default: the machine's cores). */
+  /** Worker threads for the build and the products (default: the machine's cores). */
   threads?: number;
+  /** Memory budget in bytes (default: half the machine's RAM). */
+  memoryBytes?: number;
+  /** Apply H on the fly instead of storing H_S. */
+  matrixFree?: boolean;
   /** Progress of the build (rows) and of the solve (matrix-vector products, residual). */
   onBuildProgress?: (rowsDone: number, rows: number) => void;
   onSolveProgress?: (info: { matvecs: number; residual: number; energy: number }) => void;
 }
 
-/** The projected matrix, its eigenpairs and how long each took. */
+/** The projected operator, its eigenpairs and how long each took. */
 export interface Projection {
-  matrix: SparseMatrix;
+  /** The stored matrix; undefined in matrix-free mode. */
+  matrix?: SparseMatrix;
+  /** Nonzeros of H_S (estimated in matrix-free mode). */
+  nonzeros: number;
+  complex: boolean;
+  plan: MemoryPlan;
   eigen: LanczosResult;
   timings: { build: number; solve: number };
 }
@@ -154,17 +171,44 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   const t0 = performance.now();
   const groups = groupByFlipMask(hamiltonian, basis.nWords);
   const threads = settings.threads ?? defaultThreads();
-  const matrix = await buildProjectedHamiltonianParallel(basis, groups, compileSector(sector, basis.qubits, basis.nWords), threads, settings.onBuildProgress);
+  const compiled = compileSector(sector, basis.qubits, basis.nWords);
+  const test = sectorFlipTest(groups, compiled);
+  const eigs = settings.eigs ?? 1;
+  const plan = planMemory(basis, groups, test, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
+  const shared = basis.states.buffer instanceof SharedArrayBuffer;
+  let matrix: SparseMatrix | undefined;
+  let op: LinearOperator;
+  let team: MatvecTeam | undefined;
+  if (plan.storage === 'stored') {
+    matrix = await buildProjectedHamiltonianParallel(basis, groups, compiled, threads, settings.onBuildProgress);
+    op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: matrix.complex, dim: matrix.dim, matrix }, threads)) : matrixOperator(matrix);
+  } else {
+    const view: Basis = { ...basis, counts: new Float64Array(0) };
+    const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, groups, test };
+    op = threads > 1 && shared ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, groups, test, 0, basis.dim, x, y)) };
+  }
   const t1 = performance.now();
-  const eigen = lanczos(matrixOperator(matrix), {
-    eigs: settings.eigs ?? 1,
-    tol: settings.tol ?? LANCZOS_DEFAULTS.tol,
-    seed: settings.seed ?? LANCZOS_DEFAULTS.seed,
-    start: settings.start,
-    onProgress: settings.onSolveProgress,
-  });
+  let eigen: LanczosResult;
+  try {
+    eigen = lanczos(op, {
+      eigs,
+      tol: settings.tol ?? LANCZOS_DEFAULTS.tol,
+      seed: settings.seed ?? LANCZOS_DEFAULTS.seed,
+      start: settings.start,
+      onProgress: settings.onSolveProgress,
+    });
+  } finally {
+    team?.close();
+  }
   const t2 = performance.now();
-  return { matrix, eigen, timings: { build: (t1 - t0) / 1000, solve: (t2 - t1) / 1000 } };
+  return {
+    matrix,
+    nonzeros: matrix ? nonzeros(matrix) : plan.nonzerosEstimate,
+    complex: groups.complex,
+    plan,
+    eigen,
+    timings: { build: (t1 - t0) / 1000, solve: (t2 - t1) / 1000 },
+  };
 }
 
 /** Read the Hamiltonian and dumps, select the subspace, build H_S and find its lowest eigenpairs. */
@@ -187,23 +231,28 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   lap('filter', tSamples);
   const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
   const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
-  const { matrix, eigen, timings: pt } = await projectAndSolve(hamiltonian, basis, sector, {
+  const projection = await projectAndSolve(hamiltonian, basis, sector, {
     eigs: opts.eigs,
     tol,
     seed,
     threads,
+    memoryBytes: opts.memoryBytes,
+    matrixFree: opts.matrixFree,
     onBuildProgress: opts.onBuildProgress,
     onSolveProgress: opts.onSolveProgress,
   });
-  timings.build = pt.build;
-  timings.solve = pt.solve;
+  const { matrix, eigen, plan } = projection;
+  timings.build = projection.timings.build;
+  timings.solve = projection.timings.solve;
   timings.total = (performance.now() - t0) / 1000;
   const result: SolveReport = {
     command: 'solve',
     qubits: samples.qubits,
     dimension: basis.dim,
-    nonzeros: nonzeros(matrix),
-    complex: matrix.complex,
+    nonzeros: projection.nonzeros,
+    complex: projection.complex,
+    storage: plan.storage,
+    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason },
     energies: Array.from(eigen.values),
     residuals: Array.from(eigen.residuals),
     converged: eigen.converged,
@@ -216,7 +265,7 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     sector: sectorReport(sector, samples.qubits, opts.minCount, opts.maxDim),
     threads,
     timings,
-    groundState: { top: topConfigurations(basis, eigen.vectors[0]!, matrix.complex, opts.top ?? 10, opts.qubit0) },
+    groundState: { top: topConfigurations(basis, eigen.vectors[0]!, projection.complex, opts.top ?? 10, opts.qubit0) },
   };
   return { report: result, basis, matrix, hamiltonian, eigen };
 }

@@ -3,6 +3,7 @@ import { writeFileAtomic } from '../../io/atomicWrite.js';
 import { solve } from '../../pipeline/solve.js';
 import type { CliIo } from '../io.js';
 import { positiveInt } from '../parse.js';
+import { parseMemorySize } from '../../build/memoryPlan.js';
 import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags } from '../sectorOptions.js';
 import { solveSummary } from '../summary.js';
 import { progressFor } from '../progress.js';
@@ -17,6 +18,8 @@ interface SolveFlags extends SampleFlags {
   out?: string;
   top: number;
   threads?: number;
+  memory?: number;
+  matrixFree?: boolean;
 }
 
 /** `bitspan solve`: the lowest energies of the Hamiltonian projected on the sampled configurations. */
@@ -29,6 +32,8 @@ export function solveCommand(io: CliIo): Command {
   cmd
     .option('--top <n>', 'most probable ground-state configurations to report', positiveInt('--top'), 10)
     .option('--threads <n>', 'worker threads for the build (default: the machine\'s cores)', positiveInt('--threads'))
+    .option('--memory <size>', 'memory budget, e.g. 4G (default: half the RAM); over it H is applied matrix-free', parseMemorySize)
+    .option('--matrix-free', 'apply H on the fly instead of storing the projected matrix')
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
     .action(async (f: SolveFlags) => {
@@ -47,6 +52,8 @@ export function solveCommand(io: CliIo): Command {
         format: f.format,
         top: f.top,
         threads: f.threads,
+        memoryBytes: f.memory,
+        matrixFree: f.matrixFree,
         onBuildProgress: (d, t) => progress.build(d, t),
         onSolveProgress: (i) => progress.solve(i),
       }).finally(() => progress.stop());

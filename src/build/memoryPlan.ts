@@ -1,0 +1,83 @@
+import { totalmem } from 'node:os';
+import { BitspanError } from '../errors.js';
+import type { Basis } from '../bits/basis.js';
+import type { FlipGroups } from '../operators/pauliSum.js';
+import { upperEntry, type SectorFlipTest } from './projectedHamiltonian.js';
+
+/** How H_S will be applied and what that costs, decided before anything large is allocated. */
+export interface MemoryPlan {
+  storage: 'stored' | 'matrix-free';
+  budgetBytes: number;
+  /** Estimated nonzeros of the full stored matrix (from a sample of rows). */
+  nonzerosEstimate: number;
+  bytes: { basis: number; matrix: number; solver: number; total: number };
+  reason: string;
+}
+
+/** Default memory budget: half of the machine's RAM. */
+export function defaultMemoryBudget(): number {
+  return Math.floor(totalmem() * 0.5);
+}
+
+/** Parse a size like `4G`, `512M`, `2GiB` or a byte count. */
+export function parseMemorySize(text: string): number {
+  const m = /^\s*(\d+(?:\.\d+)?)\s*([kmgt]?)(i?b)?\s*$/i.exec(text);
+  if (!m) throw new BitspanError('bad-argument', `--memory '${text}' is not a size`, 'e.g. --memory 4G or --memory 512M');
+  const unit = { '': 1, k: 2 ** 10, m: 2 ** 20, g: 2 ** 30, t: 2 ** 40 }[m[2]!.toLowerCase() as '' | 'k' | 'm' | 'g' | 't'];
+  return Math.floor(Number(m[1]) * unit);
+}
+
+/** Lanczos vectors held at once for `eigs` pairs (see solvers/lanczos.ts). */
+function solverVectors(dim: number, eigs: number): number {
+  return eigs === 1 && dim >= 50000 ? 6 : 2 * eigs + 22;
+}
+
+/**
+ * Estimate the memory of a stored build from ~2000 sampled rows and choose stored or matrix-free
+ * storage; refuse with a hint when even matrix-free products will not fit.
+ */
+export function planMemory(basis: Basis, groups: FlipGroups, test: SectorFlipTest, opts: { budgetBytes?: number; eigs?: number; matrixFree?: boolean; threads?: number }): MemoryPlan {
+  const dim = basis.dim;
+  const budget = opts.budgetBytes ?? defaultMemoryBudget();
+  const c = groups.complex ? 2 : 1;
+  const sample = Math.min(dim, 2000);
+  const b = new Uint32Array(basis.nWords);
+  const v = new Float64Array(2);
+  let upper = 0;
+  for (let s = 0; s < sample; s++) {
+    const r = Math.floor((s * dim) / sample);
+    for (let g = 0; g < groups.count; g++) {
+      const col = upperEntry(basis, groups, test, r, g, b, v);
+      if (col > r) upper++;
+    }
+  }
+  const upperEstimate = Math.ceil((upper / Math.max(1, sample)) * dim);
+  const nnz = 2 * upperEstimate + dim;
+  const basisBytes = basis.states.byteLength + basis.slots.byteLength + basis.filter.byteLength + basis.counts.byteLength;
+  // Stored: the final CSR plus the upper-triangle pieces it is assembled from.
+  const matrixBytes = nnz * (4 + 8 * c) + (dim + 1) * 8 + upperEstimate * (4 + 8 * c);
+  const vectorBytes = dim * 8 * c;
+  const threads = Math.max(1, opts.threads ?? 1);
+  const solverBytes = solverVectors(dim, opts.eigs ?? 1) * vectorBytes;
+  const freeBytes = solverBytes + (threads + 1) * vectorBytes;
+  const storedTotal = basisBytes + matrixBytes + solverBytes + 2 * vectorBytes;
+  if (!opts.matrixFree && storedTotal <= budget) {
+    return { storage: 'stored', budgetBytes: budget, nonzerosEstimate: nnz, bytes: { basis: basisBytes, matrix: matrixBytes, solver: solverBytes, total: storedTotal }, reason: 'fits the memory budget' };
+  }
+  const freeTotal = basisBytes + freeBytes;
+  if (freeTotal > budget) {
+    const gib = (x: number): string => `${(x / 2 ** 30).toFixed(2)} GiB`;
+    throw new BitspanError(
+      'too-large',
+      `dimension ${dim} needs about ${gib(freeTotal)} even without storing the matrix (basis ${gib(basisBytes)}, Lanczos vectors ${gib(freeBytes)}), over the ${gib(budget)} budget`,
+      'lower --max-dim, ask for fewer --eigs, or raise --memory if the machine has the RAM',
+    );
+  }
+  return {
+    storage: 'matrix-free',
+    budgetBytes: budget,
+    nonzerosEstimate: nnz,
+    bytes: { basis: basisBytes, matrix: 0, solver: freeBytes, total: freeTotal },
+    reason: opts.matrixFree ? 'requested with --matrix-free' : `a stored matrix (~${(matrixBytes / 2 ** 30).toFixed(2)} GiB) would exceed the memory budget`,
+  };
+}

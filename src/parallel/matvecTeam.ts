@@ -1,0 +1,110 @@
+import { Worker } from 'node:worker_threads';
+import type { Basis } from '../bits/basis.js';
+import { applyUpperRows, type SectorFlipTest } from '../build/projectedHamiltonian.js';
+import { csrApplyRows, type SparseMatrix } from '../build/sparseMatrix.js';
+import type { FlipGroups } from '../operators/pauliSum.js';
+import type { LinearOperator } from '../solvers/lanczos.js';
+import { workerScript } from '../util/packageRoot.js';
+
+/**
+ * What every team member needs, all on SharedArrayBuffers: the operator (a stored CSR matrix, or
+ * the basis and Pauli groups for matrix-free products), the input vector, one output vector per
+ * member for matrix-free products (whose mirrored updates cross row ranges), and the row split.
+ */
+export interface TeamSpec {
+  kind: 'stored' | 'free';
+  complex: boolean;
+  dim: number;
+  matrix?: SparseMatrix;
+  basis?: Basis;
+  groups?: FlipGroups;
+  test?: SectorFlipTest;
+  x: Float64Array;
+  ys: Float64Array[];
+  bounds: Int32Array;
+  control: SharedArrayBuffer;
+}
+
+/** Apply member m's rows (the main thread is member 0). */
+export function applyTeamRows(spec: TeamSpec, m: number): void {
+  const r0 = spec.bounds[m]!;
+  const r1 = spec.bounds[m + 1]!;
+  if (spec.kind === 'stored') {
+    csrApplyRows(spec.matrix!, spec.x, spec.ys[0]!, r0, r1);
+  } else {
+    const y = spec.ys[m]!;
+    y.fill(0);
+    applyUpperRows(spec.basis!, spec.groups!, spec.test!, r0, r1, spec.x, y);
+  }
+}
+
+const sharedVector = (len: number): Float64Array => new Float64Array(new SharedArrayBuffer(Math.max(8, len * 8)));
+
+/**
+ * A synchronous operator whose products run on `threads` threads (this one and threads−1 workers)
+ * over shared memory, woken through Atomics, so Lanczos stays a plain loop. Close it when done.
+ */
+export class MatvecTeam implements LinearOperator {
+  readonly dim: number;
+  readonly complex: boolean;
+  private readonly spec: TeamSpec;
+  private readonly workers: Worker[] = [];
+  private readonly ctrl: Int32Array;
+
+  constructor(spec: Omit<TeamSpec, 'x' | 'ys' | 'bounds' | 'control'>, threads: number) {
+    const len = spec.complex ? 2 * spec.dim : spec.dim;
+    const members = Math.max(1, Math.min(threads, Math.ceil(spec.dim / 2000)));
+    const control = new SharedArrayBuffer(8);
+    const ys = spec.kind === 'stored' ? [sharedVector(len)] : Array.from({ length: members }, () => sharedVector(len));
+    this.spec = { ...spec, x: sharedVector(len), ys, bounds: splitRows(spec, members), control };
+    this.ctrl = new Int32Array(control);
+    this.dim = spec.dim;
+    this.complex = spec.complex;
+    for (let m = 1; m < members; m++) {
+      this.workers.push(new Worker(workerScript('matvecTeam'), { workerData: { ...this.spec, member: m } }));
+    }
+  }
+
+  apply(x: Float64Array, y: Float64Array): void {
+    const members = this.workers.length + 1;
+    this.spec.x.set(x);
+    Atomics.store(this.ctrl, 1, 0);
+    Atomics.add(this.ctrl, 0, 1);
+    Atomics.notify(this.ctrl, 0);
+    applyTeamRows(this.spec, 0);
+    for (;;) {
+      const done = Atomics.load(this.ctrl, 1);
+      if (done >= members - 1) break;
+      Atomics.wait(this.ctrl, 1, done);
+    }
+    const ys = this.spec.ys;
+    y.set(ys[0]!);
+    for (let m = 1; m < ys.length; m++) {
+      const part = ys[m]!;
+      for (let i = 0; i < y.length; i++) y[i]! += part[i]!;
+    }
+  }
+
+  /** Stop the workers. */
+  close(): void {
+    Atomics.store(this.ctrl, 0, -1);
+    Atomics.notify(this.ctrl, 0);
+    for (const w of this.workers) void w.terminate();
+  }
+}
+
+/** Row bounds per member: equal nonzeros for a stored matrix, equal rows otherwise. */
+function splitRows(spec: Omit<TeamSpec, 'x' | 'ys' | 'bounds' | 'control'>, members: number): Int32Array {
+  const b = new Int32Array(members + 1);
+  b[members] = spec.dim;
+  if (spec.kind === 'stored' && spec.matrix) {
+    const total = spec.matrix.rowPtr[spec.dim]!;
+    let r = 0;
+    for (let m = 1; m < members; m++) {
+      const target = (total * m) / members;
+      while (r < spec.dim && spec.matrix.rowPtr[r]! < target) r++;
+      b[m] = r;
+    }
+  } else for (let m = 1; m < members; m++) b[m] = Math.floor((spec.dim * m) / members);
+  return b;
+}
