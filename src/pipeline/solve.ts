@@ -46,7 +46,7 @@ export interface SolveReport {
   complex: boolean;
   /** `stored` CSR or `matrix-free` products. */
   storage: 'stored' | 'matrix-free';
-  memory: { budgetBytes: number; estimatedBytes: number; reason: string };
+  memory: { budgetBytes: number; estimatedBytes: number; reason: string; peakRSSBytes: number };
   energies: number[];
   residuals: number[];
   converged: boolean;
@@ -252,7 +252,7 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     nonzeros: projection.nonzeros,
     complex: projection.complex,
     storage: plan.storage,
-    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason },
+    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason, peakRSSBytes: process.resourceUsage().maxRSS * 1024 },
     energies: Array.from(eigen.values),
     residuals: Array.from(eigen.residuals),
     converged: eigen.converged,
