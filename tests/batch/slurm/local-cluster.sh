@@ -33,6 +33,8 @@ die() {
 [[ $# -eq 2 ]] || usage
 CMD=$1
 [[ -n $2 ]] || usage
+# Nothing can be running for a STATE_DIR that does not exist.
+if [[ $CMD == down && ! -d $2 ]]; then exit 0; fi
 mkdir -p -- "$2"
 STATE=$(cd -- "$2" && pwd -P)
 CONF=$STATE/slurm.conf
@@ -67,10 +69,10 @@ await_exec() {
 }
 
 stop_pid() {
-  local name=$1 pid=$2 i
+  local name=$1 pid=$2 grace=${3:-$STOP_TIMEOUT} i
   is_ours "$pid" "$name" || return 0
   kill -TERM "$pid" 2>/dev/null || return 0
-  for ((i = 0; i < STOP_TIMEOUT * 10; i++)); do
+  for ((i = 0; i < grace * 10; i++)); do
     is_ours "$pid" "$name" || return 0
     sleep 0.1
   done
@@ -83,21 +85,35 @@ stop_pid() {
 
 cmd_down() {
   [[ -f $PIDS ]] || return 0
-  local name pid
-  # Jobs of this cluster would leave orphaned slurmstepd behind; cancel first.
-  if [[ -f $CONF ]] && grep -q '^slurmctld ' "$PIDS" && command -v scancel >/dev/null; then
-    local ids
+  local name n pid ctld=""
+  while read -r n pid; do
+    if [[ $n == slurmctld ]] && is_ours "$pid" slurmctld; then ctld=$pid; fi
+  done <"$PIDS"
+  # Cancel jobs first so their steps end cleanly; only a live controller
+  # answers, and asking a dead one would block for its message timeout.
+  if [[ -n $ctld && -f $CONF ]]; then
+    local ids i
     ids=$(SLURM_CONF=$CONF timeout 10 squeue -h -o %A 2>/dev/null) || true
     if [[ -n $ids ]]; then
       # shellcheck disable=SC2086
       SLURM_CONF=$CONF timeout 10 scancel --quiet $ids >/dev/null 2>&1 || true
-      sleep 1
+      for ((i = 0; i < 20; i++)); do
+        ids=$(SLURM_CONF=$CONF timeout 5 squeue -h -o %A 2>/dev/null) || break
+        [[ -z $ids ]] && break
+        sleep 0.5
+      done
     fi
   fi
   # Reverse dependency order: compute node, controller, then auth.
+  # Without a controller slurmd sits in connect retries and ignores TERM for
+  # ~10 s; it has nothing to save then, so give it a short grace.
+  local grace=$STOP_TIMEOUT
+  [[ -n $ctld ]] || grace=2
   for name in slurmd slurmctld munged; do
     while read -r n pid; do
-      [[ $n == "$name" ]] && stop_pid "$name" "$pid"
+      if [[ $n == "$name" ]]; then
+        if [[ $n == slurmd ]]; then stop_pid "$n" "$pid" "$grace"; else stop_pid "$n" "$pid"; fi
+      fi
     done <"$PIDS"
   done
   # If scancel could not run, step daemons and job scripts outlive slurmd.
@@ -177,6 +193,7 @@ start_munge() {
   setsid setpriv --reuid=munge --regid=munge --init-groups \
     "$(command -v munged)" -F --force </dev/null >>"$STATE/log/munged.out" 2>&1 &
   local pid=$!
+  disown "$pid"
   echo "munged $pid" >>"$PIDS"
   local i
   await_exec "$pid" munged || true
@@ -215,6 +232,7 @@ node_line() {
   [[ -n $mem && $mem -gt 0 && $mem -lt $cap ]] || mem=$cap
   # 5% headroom: the node drains if configured memory exceeds what it sees.
   mem=$((mem * 95 / 100))
+  ((mem >= 1)) || mem=1
   line=$(sed "s/RealMemory=[0-9]*/RealMemory=$mem/" <<<"$line")
   grep -q RealMemory= <<<"$line" || line="$line RealMemory=$mem"
   echo "$line"
@@ -267,6 +285,8 @@ start_daemon() {
   shift
   setsid "$@" </dev/null >>"$STATE/log/$name.out" 2>&1 &
   local pid=$!
+  # Detach from job control so a kill in the failure path stays silent.
+  disown "$pid"
   echo "$name $pid" >>"$PIDS"
   await_exec "$pid" "$name" || true
   log "started $name pid $pid"
@@ -348,9 +368,10 @@ cmd_smoke() {
   local id
   # Single quotes: the task id must expand on the node, not here.
   # shellcheck disable=SC2016
+  # stderr kept apart: sbatch may warn on success, and stdout must be the id.
   id=$(sbatch --parsable --array=0-3 --output="$STATE/slurm-%A_%a.out" \
-    --wrap 'echo $SLURM_ARRAY_TASK_ID > '"$STATE"'/out.$SLURM_ARRAY_TASK_ID' 2>&1) ||
-    die 1 "sbatch failed: $id"
+    --wrap 'echo $SLURM_ARRAY_TASK_ID > '"$STATE"'/out.$SLURM_ARRAY_TASK_ID' \
+    2>"$STATE/sbatch.err") || die 1 "sbatch failed: $(tail -n 1 "$STATE/sbatch.err")"
   id=${id%%;*}
   [[ $id =~ ^[0-9]+$ ]] || die 1 "sbatch gave no job id: $id"
 
