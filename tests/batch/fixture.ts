@@ -32,8 +32,8 @@ export function writeRingFixture(dir: string): { hamiltonian: string; samples: s
   const hamiltonian = join(dir, 'ring.txt');
   writeFileSync(hamiltonian, ringHamiltonian());
   const samples = [join(dir, 't0.csv'), join(dir, 't1.csv')];
-  writeFileSync(samples[0]!, ringSamples(11, 400));
-  writeFileSync(samples[1]!, ringSamples(12, 400));
+  writeFileSync(samples[0]!, ringSamples(11, 2000));
+  writeFileSync(samples[1]!, ringSamples(12, 2000));
   return { hamiltonian, samples };
 }
 
