@@ -94,6 +94,32 @@ describe('batch faults', () => {
     expect((await runCli(['collect', out])).status).toBe(0);
   });
 
+  it('batch --all stopped with SIGTERM stops its jobs, leaves earlier results untouched, removes temporary files and exits 143', async () => {
+    const out = join(dir, 'interrupted');
+    expect((await runCli(['batch', manifest, '--all', '--output', out])).status).toBe(0);
+    const before = new Map(readdirSync(out).filter((n) => n.endsWith('.json')).map((n) => [n, readFileSync(join(out, n), 'utf8')]));
+    const pause = join(dir, 'pause-c');
+    mkdirSync(pause);
+    const { child, exited } = startCli(['batch', manifest, '--all', '--force', '--jobs', '1', '--output', out], { dir: pause, match: '--eigs' });
+    const jobPid = await pausedPid(pause);
+    child.kill('SIGTERM');
+    expect((await exited).code).toBe(143);
+    // The job process went with it rather than running on as an orphan.
+    let gone = false;
+    for (let i = 0; i < 250 && !gone; i++) {
+      try {
+        process.kill(jobPid, 0);
+        await new Promise((r) => setTimeout(r, 20));
+      } catch {
+        gone = true;
+      }
+    }
+    expect(gone).toBe(true);
+    for (const [n, text] of before) expect(readFileSync(join(out, n), 'utf8'), n).toBe(text);
+    expect(leftovers(out)).toEqual([]);
+    expect(existsSync(join(out, 'full.error.json'))).toBe(false);
+  });
+
   it('batch array tasks started all at once on one folder each write only their own files', async () => {
     const out = join(dir, 'concurrent');
     const tasks = [0, 1, 2, 3, 4, 5].map((i) => startCli(['batch', manifest, '--task', String(i), '--output', out]).exited);
