@@ -5,6 +5,8 @@ import type { CommandCatalog, CommandSpec, OptionSpec } from '../batch/commandSp
 const PATH_PLACEHOLDERS = new Set(['file', 'files', 'path', 'paths', 'dir', 'dirs', 'folder', 'folders']);
 /** Keys that are input files even if a command names their placeholder otherwise. */
 export const PATH_KEYS = ['hamiltonian', 'samples', 'integrals', 'observables', 'matrices', 'start', 'state'];
+/** Keys of options that write files (refused in manifests), besides those whose help says they write. */
+export const OUTPUT_KEYS = ['out', 'output', 'plot', 'csv', 'svg', 'png'];
 /** Commands a manifest cannot name: they run or gather manifests themselves. */
 const NOT_BATCHABLE = new Set(['batch', 'collect']);
 
@@ -38,7 +40,7 @@ function optionSpecs(options: readonly Option[]): Map<string, OptionSpec> {
     const kind = o.isBoolean() ? 'boolean' : o.variadic ? 'list' : 'value';
     const names = kind !== 'boolean' && (PATH_PLACEHOLDERS.has(placeholder) || PATH_KEYS.includes(key));
     // An option that writes a file of its own (e.g. --out) would write outside batch's control.
-    const writesOutput = names && /\b(write|writes|save|saves)\b/i.test(o.description);
+    const writesOutput = kind !== 'boolean' && (OUTPUT_KEYS.includes(key) || (names && /\b(write|writes|written|save|saves|saved|export|exports)\b/i.test(o.description)));
     const prior = specs.get(key);
     specs.set(key, {
       key,

@@ -10,6 +10,8 @@ import { ringManifest, writeRingFixture } from './fixture.js';
 
 const CLUSTER = fileURLToPath(new URL('./slurm/local-cluster.sh', import.meta.url));
 const BIN = fileURLToPath(new URL('../../dist/src/cli/bin.js', import.meta.url));
+/** CI services set CI (usually to "true"); "0" or "false" means not on CI. */
+const onCi = !!process.env.CI && !/^(0|false)$/i.test(process.env.CI);
 
 interface Ran {
   code: number | null;
@@ -65,7 +67,7 @@ describe('batch on a Slurm cluster', () => {
   it('batch --print-sbatch run as a Slurm array job gives the same collected energies as batch --all', async (ctx) => {
     if (unavailable) {
       // On CI the scheduler test must run; elsewhere a machine without apt or daemons skips it.
-      if (process.env.CI) throw new Error(`Slurm test cannot run on CI: ${unavailable}`);
+      if (onCi) throw new Error(`Slurm test cannot run on CI: ${unavailable}`);
       process.stderr.write(`slurm.test: skipped, no local Slurm cluster: ${unavailable}\n`);
       ctx.skip(unavailable);
     }
@@ -101,7 +103,8 @@ describe('batch on a Slurm cluster', () => {
     const logs = join(onSlurm, 'logs');
     const errLogs = readdirSync(logs).filter((f) => f.endsWith('.err') && f.includes(jobId));
     const logText = errLogs.map((f) => `${f}: ${readFileSync(join(logs, f), 'utf8')}`).join('\n');
-    const fromSlurm = await runCli(['collect', onSlurm, '--manifest', manifest, '--json']);
+    const collectBoth = (dir: string, csv: string) => runCli(['collect', dir, '--manifest', manifest, '--json', '--no-timings', '--csv', csv]);
+    const fromSlurm = await collectBoth(onSlurm, join(work, 'slurm.csv'));
     expect(fromSlurm.status, `collect after the array job: ${fromSlurm.stderr}\n${logText}`).toBe(0);
     // Every task took its job from SLURM_ARRAY_TASK_ID and said so in its log.
     expect(errLogs).toHaveLength(6);
@@ -111,7 +114,7 @@ describe('batch on a Slurm cluster', () => {
     const all = await runCli(['batch', manifest, '--all', '--output', local]);
     timings.all = (performance.now() - t1) / 1000;
     expect(all.status, all.stderr).toBe(0);
-    const here = await runCli(['collect', local, '--manifest', manifest, '--json']);
+    const here = await collectBoth(local, join(work, 'local.csv'));
     expect(here.status).toBe(0);
 
     type Row = { name: string; status: string; dimension: number; energies: number[]; residuals: number[] };
@@ -127,6 +130,9 @@ describe('batch on a Slurm cluster', () => {
       // Same inputs and seed must give the same energies to 1e-10 wherever they run (issue 7, determinism).
       r.energies.forEach((e, k) => closeTo(e, s.energies[k]!, 1e-10, `${r.name} energy ${k}`));
     });
+    // Without timings, the two tables are the same table.
+    expect(JSON.parse(fromSlurm.stdout)).toEqual(JSON.parse(here.stdout));
+    expect(readFileSync(join(work, 'slurm.csv'), 'utf8')).toBe(readFileSync(join(work, 'local.csv'), 'utf8'));
     process.stderr.write(`slurm.test: cluster up ${timings.up!.toFixed(1)} s, array job ${timings.array!.toFixed(1)} s, --all ${timings.all!.toFixed(1)} s\n`);
   }, 90_000);
 });

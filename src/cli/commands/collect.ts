@@ -14,6 +14,7 @@ interface CollectFlags {
   manifest?: string;
   json?: boolean;
   csv?: string;
+  timings: boolean;
 }
 
 /** `bitspan collect`: gather a batch's result files into one table and list missing and failed jobs. */
@@ -23,11 +24,13 @@ export function collectCommand(io: CliIo): Command {
     .argument('<dir>', 'output folder of the batch')
     .option('--manifest <file>', 'the manifest, to know every job (default: the job list batch saved in DIR)')
     .option('--json', 'print {"rows": [...], "missing": [...], "failed": [...]} on stdout')
-    .option('--csv <file>', 'also write the table as CSV to FILE (atomically)');
+    .option('--csv <file>', 'also write the table as CSV to FILE (atomically)')
+    .option('--no-timings', 'leave out the timings, so tables of the same jobs run anywhere are identical');
   cmd.action(async (dirArg: string, f: CollectFlags) => {
     const dir = resolve(dirArg);
     const jobs = f.manifest ? jobPlan(await readManifest(f.manifest, commandCatalog(cmd.parent ?? cmd)), dir).jobs : (await readJobPlan(dir))?.jobs;
     const c = await collect(dir, jobs);
+    if (!f.timings) for (const r of c.rows) delete r.timings;
     if (f.csv) {
       const t = collectTable(c);
       await writeFileAtomic(resolve(f.csv), formatCsv(t.columns, t.rows));
