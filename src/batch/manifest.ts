@@ -200,7 +200,7 @@ function fillTemplate(
       if (j < 0) fail(`name placeholder {#${key}} names no "vary" key`, `use one of ${varyKeys.map((k) => `{#${k}}`).join(', ')}`);
       return String(at[j]);
     }
-    const v = key in keys ? keys[key]!.value : defaults[key];
+    const v = Object.hasOwn(keys, key) ? keys[key]!.value : Object.hasOwn(defaults, key) ? defaults[key] : undefined;
     if (v === undefined) fail(`name placeholder {${key}} names no key of the job`, `use one of ${varyKeys.map((k) => `{${k}}`).join(', ')}`);
     return Array.isArray(v) ? v.map(String).join('_') : String(v);
   });
@@ -237,7 +237,6 @@ function buildJob(ctx: Context, own: Record<string, Source>, index: number, orig
   if (!spec) fail(`${label}: unknown command "${command}"`, `a manifest job runs one of ${[...catalog.keys()].join(', ')}${suggest(command, [...catalog.keys()])}`, cmdSrc!.path);
 
   const params: Record<string, ManifestValue> = {};
-  const values = new Map<string, Source>();
   for (const [k, s] of Object.entries(merged)) {
     if (k === 'name' || k === 'command') continue;
     const opt = spec!.options.get(k);
@@ -249,7 +248,6 @@ function buildJob(ctx: Context, own: Record<string, Source>, index: number, orig
     }
     if (opt!.writesOutput) fail(`${label}: "${k}" (${opt!.flag}) writes its own file, which batch does not allow`, `batch writes each result to <output>/${name}.json; remove "${k}"`, s.path);
     params[k] = checkValue(s, opt!, label, fail);
-    values.set(k, s);
   }
 
   const argv: string[] = [command];
@@ -269,8 +267,10 @@ function buildJob(ctx: Context, own: Record<string, Source>, index: number, orig
       return p;
     });
     if (opt.kind === 'boolean') {
-      if (v === true) argv.push(opt.flag);
-      else if (opt.negateFlag) argv.push(opt.negateFlag);
+      // A negate-only option (`--no-x` alone) is on by default: true adds nothing.
+      if (v === true) {
+        if (opt.flag) argv.push(opt.flag);
+      } else if (opt.negateFlag) argv.push(opt.negateFlag);
     } else if (opt.kind === 'list' && strings.every((s) => !s.startsWith('-'))) {
       argv.push(opt.flag, ...strings);
     } else {

@@ -1,4 +1,4 @@
-import { Command } from 'commander';
+import { Command, Option } from 'commander';
 import { promises as fsp } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join, relative, resolve } from 'node:path';
@@ -36,7 +36,7 @@ export function batchCommand(io: CliIo): Command {
     .argument('<manifest>', 'JSON job manifest')
     .option('--task <i>', 'run job I (0-based) of the manifest', nonNegativeInt('--task'))
     .option('--all', 'run every job here, --jobs at a time, each in its own process')
-    .option('--jobs <n>', 'jobs running at once with --all (default: the number of CPUs)', positiveInt('--jobs'), availableParallelism())
+    .addOption(new Option('--jobs <n>', 'jobs running at once with --all').argParser(positiveInt('--jobs')).default(availableParallelism(), 'the number of CPUs'))
     .option('--force', 'run jobs even when their result is up to date')
     .option('--output <dir>', 'write results to DIR instead of the manifest\'s "output"')
     .option('--print-sbatch', 'print a Slurm array-job script for the manifest (creates DIR/logs)')
