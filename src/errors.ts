@@ -1,6 +1,7 @@
 /**
  * Stable codes for everything bitspan reports as a user-facing failure. Input codes map to exit
- * status 2 in the CLI; `internal` maps to 1; `interrupted` to 130/143.
+ * status 2 in the CLI; `internal` maps to 1; `interrupted` to 130/143; `incomplete` (batch jobs
+ * that failed, or are missing when collected) to 3.
  */
 export type BitspanErrorCode =
   | 'bad-argument'
@@ -18,6 +19,7 @@ export type BitspanErrorCode =
   | 'bad-manifest'
   | 'output-unwritable'
   | 'interrupted'
+  | 'incomplete'
   | 'internal';
 
 /** Where an input error happened: a file and, when known, a 1-based line. */
@@ -67,5 +69,6 @@ export class BitspanError extends Error {
 export function exitStatusFor(code: BitspanErrorCode): number {
   if (code === 'internal') return 1;
   if (code === 'interrupted') return 130;
+  if (code === 'incomplete') return 3;
   return 2;
 }

@@ -12,6 +12,8 @@ export { readHamiltonian } from './io/readHamiltonian.js';
 export { parseHamiltonianJson } from './io/hamiltonianJson.js';
 export { parseHamiltonianText } from './io/hamiltonianText.js';
 export { writeFileAtomic } from './io/atomicWrite.js';
+export { parseJsonWithLines, type JsonWithLines, type JsonPath } from './io/jsonWithLines.js';
+export { formatCsv, csvCell, type CsvCell } from './io/formatCsv.js';
 
 export { parseWeightSpec, compileSector, inSector, describeSector, type Sector, type WeightConstraint, type CompiledSector } from './sectors/sector.js';
 export { selectSubspace, type SubspaceReport, type SampleAccount, type GroupAccount, type SelectOptions } from './sectors/selectSubspace.js';
@@ -26,3 +28,27 @@ export { symmetricEigen } from './solvers/symmetricEigen.js';
 
 export { solve, projectAndSolve, checkRegister, sectorReport, matrixOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
 export { seededUniform } from './util/random.js';
+
+export type { CommandCatalog, CommandSpec, OptionSpec } from './batch/commandSpec.js';
+export { parseManifest, readManifest, isSafeJobName, MAX_JOBS, type Manifest, type BatchJob, type ManifestValue, type ManifestScalar } from './batch/manifest.js';
+export { jobHash, sha256File, type InputDigest, type DigestCache } from './batch/jobHash.js';
+export {
+  runJob,
+  jobFiles,
+  isUpToDate,
+  reportedError,
+  ERROR_FORMAT_ENV,
+  META_DIR,
+  type RunJobOptions,
+  type JobOutcome,
+  type JobFiles,
+  type JobMeta,
+  type JobErrorRecord,
+  type JobExecutor,
+  type ExecResult,
+} from './batch/runJob.js';
+export { runAll, type RunAllOptions } from './batch/runAll.js';
+export { jobPlan, writeJobPlan, readJobPlan, planFile, type JobPlan, type PlannedJob } from './batch/jobPlan.js';
+export { collect, type Collected, type CollectRow, type CollectError } from './batch/collect.js';
+export { collectTable, type Table } from './batch/collectTable.js';
+export { taskFromEnv, sbatchScript, shellQuote, jobNameFor, ARRAY_VARIABLES, type ArrayVariable, type TaskFromEnv, type SbatchSettings } from './batch/schedulers.js';

@@ -35,10 +35,10 @@ export function writeFiles(dir: string, files: Record<string, string>): Record<s
   return out;
 }
 
-/** Run the CLI in-process; returns exit status and captured streams. */
-export async function runCli(argv: string[]): Promise<{ status: number; stdout: string; stderr: string }> {
+/** Run the CLI in-process (with `env` as its environment); returns exit status and captured streams. */
+export async function runCli(argv: string[], env: Record<string, string | undefined> = {}): Promise<{ status: number; stdout: string; stderr: string }> {
   let stdout = '';
   let stderr = '';
-  const status = await main(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), stderrIsTTY: false, env: {} });
+  const status = await main(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), stderrIsTTY: false, env });
   return { status, stdout, stderr };
 }

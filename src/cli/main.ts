@@ -1,11 +1,14 @@
 import { Command, CommanderError } from 'commander';
 import { BitspanError, exitStatusFor } from '../errors.js';
+import { ERROR_FORMAT_ENV } from '../batch/runJob.js';
+import { batchCommand } from './commands/batch.js';
+import { collectCommand } from './commands/collect.js';
 import { solveCommand } from './commands/solve.js';
 import type { CliIo } from './io.js';
 import { closeThreadPools } from '../parallel/threadPool.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
-const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand];
+const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, batchCommand, collectCommand];
 
 /**
  * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,
@@ -40,11 +43,14 @@ function reportError(e: unknown, io: CliIo): number {
     return 2;
   }
   const err = unwrap(e);
+  // Under `bitspan batch` the one error line is JSON, so the batch can record code and place.
+  const asJson = io.env[ERROR_FORMAT_ENV] === 'json';
   if (err instanceof BitspanError) {
-    io.stderr(`bitspan: error: ${err.toLine()}\n`);
+    io.stderr(asJson ? `${JSON.stringify({ bitspanError: err.toJSON() })}\n` : `bitspan: error: ${err.toLine()}\n`);
     return exitStatusFor(err.code);
   }
   const msg = e instanceof Error ? e.message : String(e);
+  if (asJson) io.stderr(`${JSON.stringify({ bitspanError: { code: 'internal', message: msg.replace(/\s+/g, ' ') } })}\n`);
   io.stderr(`bitspan: internal error: ${msg.replace(/\s+/g, ' ')} (please report this with the command you ran)\n`);
   if (process.env.BITSPAN_DEBUG && e instanceof Error && e.stack) io.stderr(e.stack + '\n');
   return 1;
