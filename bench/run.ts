@@ -79,7 +79,7 @@ async function main(): Promise<void> {
       const ours2 = runBitspan(c.hamiltonian, c.samples, c.weight, 2);
       const peer = args.peer ? runPeer(c.hamiltonian, c.samples, c.weight) : null;
       const mv = size <= 2e6 ? measure('matvec', [c.hamiltonian, c.samples, String(c.weight)]) : null;
-      const peak = (o: Record<string, unknown>): number => ((o.memory as { peakRSSBytes: number }).peakRSSBytes / 2 ** 20);
+      const peak = (o: Record<string, unknown>): number => (o.timings as { peakRSSMB: number }).peakRSSMB;
       const row = {
         distinct: size,
         qubits: c.qubits,
