@@ -42,12 +42,13 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
   const parser = new BitstringParser({ qubits: opts.qubits, qubit0: opts.qubit0 });
   const groups: SampleGroup[] = [];
   for (const file of files) {
-    await checkReadable(file, 'sample');
+    const bytes = await checkReadable(file, 'sample');
     let table: ConfigTable | undefined;
     let shots = 0;
     const sink = {
       add(words: Uint32Array, count: number): void {
-        table ??= new ConfigTable(parser.nWords, 1 << 14);
+        // Size the table from the file once the row length is known, so it rarely rehashes.
+        table ??= new ConfigTable(parser.nWords, Math.min(1 << 24, Math.max(1 << 12, Math.ceil(bytes / (parser.qubits + 4)))));
         table.add(words, 0, count);
         shots += count;
       },

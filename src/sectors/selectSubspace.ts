@@ -1,7 +1,7 @@
 import { BitspanError } from '../errors.js';
 import { ConfigTable } from '../bits/configTable.js';
-import { makeBasis, type Basis } from '../bits/basis.js';
-import { compareConfigs, reverseQubits } from '../bits/packed.js';
+import { makeBasis, sortOrder, type Basis } from '../bits/basis.js';
+import { reverseQubits } from '../bits/packed.js';
 import type { SampleSet } from '../io/readSamples.js';
 import { compileSector, describeSector, sectorViolation, type Sector } from './sector.js';
 
@@ -76,8 +76,14 @@ function tally(d: Dropped, reason: number, shots: number): void {
 export function selectSubspace(samples: SampleSet, opts: SelectOptions): { basis: Basis; report: SubspaceReport } {
   const { qubits, nWords } = samples;
   const sector = compileSector(opts.sector, qubits, nWords);
-  const merged = new ConfigTable(nWords, samples.groups.reduce((n, g) => n + g.table.size, 0));
-  for (const g of samples.groups) for (let i = 0; i < g.table.size; i++) merged.add(g.table.states, i * nWords, g.table.counts[i]!);
+  // One dump needs no merge; several are merged once, remembering where each entry went.
+  const single = samples.groups.length === 1;
+  const merged = single ? samples.groups[0]!.table : new ConfigTable(nWords, samples.groups.reduce((n, g) => n + g.table.size, 0));
+  const whereMerged: Int32Array[] = samples.groups.map((g) => {
+    const at = new Int32Array(g.table.size);
+    for (let i = 0; i < g.table.size; i++) at[i] = single ? i : merged.add(g.table.states, i * nWords, g.table.counts[i]!);
+    return at;
+  });
 
   const n = merged.size;
   const reason = new Uint8Array(n);
@@ -90,9 +96,10 @@ export function selectSubspace(samples: SampleSet, opts: SelectOptions): { basis
   }
   let kept = survivors;
   if (opts.maxDim !== undefined && survivors.length > opts.maxDim) {
-    const byFrequency = survivors.slice().sort(
-      (a, b) => merged.counts[b]! - merged.counts[a]! || compareConfigs(merged.states, a * nWords, merged.states, b * nWords, nWords),
-    );
+    // Ascending configuration order (radix sort), then a stable sort by count: ties keep the smaller bitstring first.
+    const ascending = sortOrder(merged.states, merged.size, nWords);
+    const byFrequency = Array.from(ascending).filter((i) => reason[i] === REASON_KEPT);
+    byFrequency.sort((a, b) => merged.counts[b]! - merged.counts[a]!);
     kept = byFrequency.slice(0, opts.maxDim);
     for (const i of byFrequency.slice(opts.maxDim)) reason[i] = REASON_MAX_DIM;
   }
@@ -105,10 +112,10 @@ export function selectSubspace(samples: SampleSet, opts: SelectOptions): { basis
     else tally(total.dropped, reason[i]!, c);
   }
   const seenBefore = new Uint8Array(n);
-  for (const g of samples.groups) {
+  samples.groups.forEach((g, gi) => {
     const acc: GroupAccount = { file: g.file, rows: g.rows, shots: g.shots, distinct: g.table.size, kept: 0, keptShots: 0, newKept: 0, dropped: emptyDropped() };
     for (let j = 0; j < g.table.size; j++) {
-      const i = merged.indexOf(g.table.states, j * nWords);
+      const i = whereMerged[gi]![j]!;
       const c = g.table.counts[j]!;
       if (reason[i] === REASON_KEPT) {
         acc.kept++;
@@ -118,7 +125,7 @@ export function selectSubspace(samples: SampleSet, opts: SelectOptions): { basis
       seenBefore[i] = 1;
     }
     total.groups.push(acc);
-  }
+  });
 
   if (kept.length === 0) throw emptySubspaceError(samples, opts, total, merged, sector.count > 0);
 
