@@ -4,10 +4,11 @@ import { solveCommand } from './commands/solve.js';
 import { modelCommand } from './commands/model.js';
 import { simulateCommand } from './commands/simulate.js';
 import { exactCommand } from './commands/exact.js';
+import { demoCommand } from './commands/demo.js';
 import type { CliIo } from './io.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
-const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, modelCommand, simulateCommand, exactCommand];
+const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, modelCommand, simulateCommand, exactCommand, demoCommand];
 
 /**
  * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,

@@ -53,7 +53,8 @@ export function* evolveStates(h: PauliSum, initial: StateVector, opts: Evolution
   const op = fullSpaceOperator(h, initial.qubits, opts.shared);
   const kernels = opts.kernels ? opts.kernels(op) : new LocalKernels(op);
   const at = (k: number, work: number): EvolvedState => {
-    const e: EvolvedState = { k, time: k * opts.dt, state: initial, work };
+    // k·dt to 12 digits, so reports read 1.2 rather than 1.2000000000000002.
+    const e: EvolvedState = { k, time: Number((k * opts.dt).toPrecision(12)), state: initial, work };
     if (opts.energy) {
       const m = kernels.energyMoments(initial);
       const n2 = normSquared(initial);
