@@ -19,6 +19,13 @@ export interface FullSpaceOperator {
   flips: Int32Array;
   /** groups + 1 offsets into the term arrays. */
   termStart: Int32Array;
+  /**
+   * Per group, where its terms with a nonzero z mask begin: the terms before it have a constant
+   * sign, and their summed phase is `baseRe/baseIm`, so products skip them.
+   */
+  signedStart: Int32Array;
+  baseRe: Float64Array;
+  baseIm: Float64Array;
   zMasks: Int32Array;
   phaseRe: Float64Array;
   phaseIm: Float64Array;
@@ -36,6 +43,9 @@ export function fullSpaceOperator(h: PauliSum, qubits: number, shared = false): 
   let normBound = 0;
   const flips: number[] = [];
   const termStart: number[] = [];
+  const signedStart: number[] = [];
+  const baseRe: number[] = [];
+  const baseIm: number[] = [];
   const zMasks: number[] = [];
   const phaseRe: number[] = [];
   const phaseIm: number[] = [];
@@ -51,11 +61,25 @@ export function fullSpaceOperator(h: PauliSum, qubits: number, shared = false): 
     }
     flips.push(f);
     termStart.push(zMasks.length);
-    for (let t = t0; t < t1; t++) {
+    let br = 0;
+    let bi = 0;
+    // Constant-sign terms first (stable order otherwise).
+    const order: number[] = [];
+    for (let t = t0; t < t1; t++) if (groups.zMasks[t] === 0) order.push(t);
+    const constant = order.length;
+    for (let t = t0; t < t1; t++) if (groups.zMasks[t] !== 0) order.push(t);
+    order.forEach((t, i) => {
       zMasks.push(groups.zMasks[t]! | 0);
       phaseRe.push(groups.phaseRe[t]!);
       phaseIm.push(groups.phaseIm[t]!);
-    }
+      if (i < constant) {
+        br += groups.phaseRe[t]!;
+        bi += groups.phaseIm[t]!;
+      }
+    });
+    signedStart.push(termStart[termStart.length - 1]! + constant);
+    baseRe.push(br);
+    baseIm.push(bi);
   }
   termStart.push(zMasks.length);
   return {
@@ -65,6 +89,9 @@ export function fullSpaceOperator(h: PauliSum, qubits: number, shared = false): 
     diagonal,
     flips: Int32Array.from(flips),
     termStart: Int32Array.from(termStart),
+    signedStart: Int32Array.from(signedStart),
+    baseRe: Float64Array.from(baseRe),
+    baseIm: Float64Array.from(baseIm),
     zMasks: Int32Array.from(zMasks),
     phaseRe: Float64Array.from(phaseRe),
     phaseIm: Float64Array.from(phaseIm),
@@ -97,7 +124,7 @@ export function applyFullSpace(
   lo = 0,
   hi = op.dim,
 ): void {
-  const { diagonal, flips, termStart, zMasks, phaseRe, phaseIm, complex } = op;
+  const { diagonal, flips, termStart, signedStart, baseRe, baseIm, zMasks, phaseRe, phaseIm, complex } = op;
   const groups = flips.length;
   for (let b0 = lo; b0 < hi; b0 += BLOCK) {
     const b1 = Math.min(hi, b0 + BLOCK);
@@ -108,12 +135,13 @@ export function applyFullSpace(
     }
     for (let g = 0; g < groups; g++) {
       const f = flips[g]!;
-      const t0 = termStart[g]!;
+      const t0 = signedStart[g]!;
       const t1 = termStart[g + 1]!;
+      const a0 = baseRe[g]!;
       if (!complex) {
         for (let b = b0; b < b1; b++) {
           const c = b ^ f;
-          let a = 0;
+          let a = a0;
           for (let t = t0; t < t1; t++) a += popcount32(c & zMasks[t]!) & 1 ? -phaseRe[t]! : phaseRe[t]!;
           if (a === 0) continue;
           a *= alpha;
@@ -123,8 +151,8 @@ export function applyFullSpace(
       } else {
         for (let b = b0; b < b1; b++) {
           const c = b ^ f;
-          let ar = 0;
-          let ai = 0;
+          let ar = a0;
+          let ai = baseIm[g]!;
           for (let t = t0; t < t1; t++) {
             if (popcount32(c & zMasks[t]!) & 1) {
               ar -= phaseRe[t]!;

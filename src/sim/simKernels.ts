@@ -160,7 +160,7 @@ export interface EnergyMoments {
 /** Partial sums of Σ_b conj(ψ_b)(Hψ)_b and Σ_b |(Hψ)_b|² over rows lo..hi, gathering each row. */
 export function energyMomentsRange(op: FullSpaceOperator, psi: StateVector, lo: number, hi: number): EnergyMoments {
   const { re, im } = psi;
-  const { diagonal, flips, termStart, zMasks, phaseRe, phaseIm } = op;
+  const { diagonal, flips, termStart, signedStart, baseRe, baseIm, zMasks, phaseRe, phaseIm } = op;
   let first = 0;
   let second = 0;
   for (let b = lo; b < hi; b++) {
@@ -170,9 +170,9 @@ export function energyMomentsRange(op: FullSpaceOperator, psi: StateVector, lo: 
     let hi2 = diagonal[b]! * i;
     for (let g = 0; g < flips.length; g++) {
       const col = b ^ flips[g]!;
-      let ar = 0;
-      let ai = 0;
-      for (let t = termStart[g]!; t < termStart[g + 1]!; t++) {
+      let ar = baseRe[g]!;
+      let ai = baseIm[g]!;
+      for (let t = signedStart[g]!; t < termStart[g + 1]!; t++) {
         if (popcount32(col & zMasks[t]!) & 1) {
           ar -= phaseRe[t]!;
           ai -= phaseIm[t]!;
