@@ -4,12 +4,12 @@ import { BitspanError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
 import { highestQubit } from '../operators/pauliSum.js';
-import { evolveStates, type EvolutionMethod } from '../sim/evolveStates.js';
+import { evolutionArrays, evolveStates, type EvolutionMethod } from '../sim/evolveStates.js';
 import { initialConfiguration } from '../sim/initialState.js';
 import { NO_NOISE, sampleDump, type Dump, type ShotNoise } from '../sim/sampleDump.js';
-import { createState, MAX_SIM_QUBITS } from '../sim/stateVector.js';
-import type { FullSpaceOperator } from '../sim/fullSpaceOperator.js';
-import type { SimKernels } from '../sim/simKernels.js';
+import { checkStateFits, createState, MAX_SIM_QUBITS } from '../sim/stateVector.js';
+import { fullSpaceOperator } from '../sim/fullSpaceOperator.js';
+import { WorkerKernels } from '../sim/workerKernels.js';
 
 /** Everything `simulate` needs; the Hamiltonian path is read here. */
 export interface SimulateOptions {
@@ -28,9 +28,8 @@ export interface SimulateOptions {
   out: string;
   /** Also report ⟨H⟩ and its spread for every state. */
   energy?: boolean;
-  /** Worker-pool kernels (see `evolveStates`). */
-  kernels?: (op: FullSpaceOperator) => SimKernels;
-  shared?: boolean;
+  /** Threads for the state-vector kernels (this one and workers); 1 runs everything here. */
+  threads?: number;
   /** Called after each dump is written. */
   onProgress?: (done: number, total: number) => void;
 }
@@ -41,13 +40,16 @@ export interface SimulateReport {
   qubits: number;
   hamiltonian: { file: string; terms: number; constant: number; qubits: number };
   initial: { spec: string; bitstring: string };
-  evolution: { method: EvolutionMethod; dt: number; steps: number; trotterSteps: number | null; work: number };
+  evolution: { method: EvolutionMethod; dt: number; steps: number; trotterSteps: number | null; work: number; threads: number };
   shots: number;
   seed: number;
   noise: ShotNoise;
   dumps: Array<{ file: string; time: number; distinct: number; energy?: number; spread?: number }>;
   timings: { evolve: number; sample: number; write: number; total: number };
 }
+
+/** Registers below this size run on one thread: waking workers would cost more than it saves. */
+const POOL_MIN_QUBITS = 14;
 
 /** Render a dump as CSV: `bitstring,count`, the most frequent first (ties: smaller bitstring first). */
 export function dumpCsv(d: Dump, qubits: number): string {
@@ -75,17 +77,23 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
   }
   const config = initialConfiguration(opts.initial, qubits);
   const noise = opts.noise ?? NO_NOISE;
+  checkStateFits(qubits, evolutionArrays(opts.evolution), opts.evolution === 'exact' ? 'exact evolution' : 'Trotter simulation');
   await mkdir(opts.out, { recursive: true }).catch((e: NodeJS.ErrnoException) => {
     throw new BitspanError('output-unwritable', `cannot create the output folder (${e.code ?? String(e)})`, 'check the path and permissions', { file: opts.out });
   });
-  const psi = createState(qubits, opts.shared);
+  // Small registers are not worth waking threads for.
+  const threads = qubits >= POOL_MIN_QUBITS ? Math.max(1, opts.threads ?? 1) : 1;
+  const shared = threads > 1;
+  const operator = fullSpaceOperator(h, qubits, shared);
+  const kernels = shared ? await WorkerKernels.start(operator, threads) : undefined;
+  const psi = createState(qubits, shared);
   psi.re[config] = 1;
   const report: SimulateReport = {
     command: 'simulate',
     qubits,
     hamiltonian: { file: opts.hamiltonian, terms: h.terms.length, constant: h.constant, qubits: h.qubits },
     initial: { spec: opts.initial, bitstring: config.toString(2).padStart(qubits, '0') },
-    evolution: { method: opts.evolution, dt: opts.dt, steps: opts.steps, trotterSteps: opts.evolution === 'exact' ? null : (opts.trotterSteps ?? 1), work: 0 },
+    evolution: { method: opts.evolution, dt: opts.dt, steps: opts.steps, trotterSteps: opts.evolution === 'exact' ? null : (opts.trotterSteps ?? 1), work: 0, threads },
     shots: opts.shots,
     seed: opts.seed,
     noise,
@@ -99,27 +107,32 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
     steps: opts.steps,
     trotterSteps: opts.trotterSteps,
     energy: opts.energy,
-    kernels: opts.kernels,
-    shared: opts.shared,
+    operator,
+    kernels,
+    shared,
   });
-  for (const s of evolution) {
-    const t1 = performance.now();
-    report.timings.evolve += (t1 - mark) / 1000;
-    const dump = sampleDump(s.state, opts.shots, noise, opts.seed, s.k);
-    const t2 = performance.now();
-    report.timings.sample += (t2 - t1) / 1000;
-    const file = join(opts.out, `t${s.k}.csv`);
-    await writeFileAtomic(file, dumpCsv(dump, qubits));
-    const entry: SimulateReport['dumps'][number] = { file, time: s.time, distinct: dump.configs.length };
-    if (s.energy) {
-      entry.energy = s.energy.mean;
-      entry.spread = s.energy.spread;
+  try {
+    for (const s of evolution) {
+      const t1 = performance.now();
+      report.timings.evolve += (t1 - mark) / 1000;
+      const dump = sampleDump(s.state, opts.shots, noise, opts.seed, s.k);
+      const t2 = performance.now();
+      report.timings.sample += (t2 - t1) / 1000;
+      const file = join(opts.out, `t${s.k}.csv`);
+      await writeFileAtomic(file, dumpCsv(dump, qubits));
+      const entry: SimulateReport['dumps'][number] = { file, time: s.time, distinct: dump.configs.length };
+      if (s.energy) {
+        entry.energy = s.energy.mean;
+        entry.spread = s.energy.spread;
+      }
+      report.dumps.push(entry);
+      report.evolution.work = s.work;
+      mark = performance.now();
+      report.timings.write += (mark - t2) / 1000;
+      opts.onProgress?.(s.k + 1, opts.steps);
     }
-    report.dumps.push(entry);
-    report.evolution.work = s.work;
-    mark = performance.now();
-    report.timings.write += (mark - t2) / 1000;
-    opts.onProgress?.(s.k + 1, opts.steps);
+  } finally {
+    kernels?.close();
   }
   report.timings.total = (performance.now() - t0) / 1000;
   await writeFileAtomic(join(opts.out, 'simulate.json'), JSON.stringify(report, null, 2) + '\n');

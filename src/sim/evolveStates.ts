@@ -18,8 +18,10 @@ export interface EvolutionOptions {
   steps: number;
   /** Trotter steps per dt (the state at k·dt has had k·trotterSteps steps of size dt/trotterSteps). */
   trotterSteps?: number;
-  /** Kernels to run on (a worker pool); a single-thread set is made otherwise. */
-  kernels?: (op: FullSpaceOperator) => SimKernels;
+  /** The compiled operator, when the caller made it (e.g. to start a worker pool on it). */
+  operator?: FullSpaceOperator;
+  /** Kernels bound to `operator` (a worker pool); the caller closes them. Single-thread otherwise. */
+  kernels?: SimKernels;
   /** Allocate on SharedArrayBuffers (required by a worker pool). */
   shared?: boolean;
   /** Also measure ⟨H⟩ and its spread ‖Hψ − ⟨H⟩ψ‖ for every state (one product with H each). */
@@ -50,8 +52,8 @@ export function evolutionArrays(method: EvolutionMethod): number {
  */
 export function* evolveStates(h: PauliSum, initial: StateVector, opts: EvolutionOptions): Generator<EvolvedState, void, void> {
   checkStateFits(initial.qubits, evolutionArrays(opts.method), opts.method === 'exact' ? 'exact evolution' : 'Trotter simulation');
-  const op = fullSpaceOperator(h, initial.qubits, opts.shared);
-  const kernels = opts.kernels ? opts.kernels(op) : new LocalKernels(op);
+  const op = opts.operator ?? fullSpaceOperator(h, initial.qubits, opts.shared);
+  const kernels = opts.kernels ?? new LocalKernels(op);
   const at = (k: number, work: number): EvolvedState => {
     // k·dt to 12 digits, so reports read 1.2 rather than 1.2000000000000002.
     const e: EvolvedState = { k, time: Number((k * opts.dt).toPrecision(12)), state: initial, work };
@@ -85,6 +87,6 @@ export function* evolveStates(h: PauliSum, initial: StateVector, opts: Evolution
       }
     }
   } finally {
-    kernels.close();
+    if (!opts.kernels) kernels.close();
   }
 }

@@ -1,12 +1,13 @@
 import { Command } from 'commander';
-import { fileURLToPath } from 'node:url';
 import { existsSync } from 'node:fs';
+import { join } from 'node:path';
 import { runDemo, type DemoReport, type DemoRow } from '../../pipeline/demo.js';
 import type { CliIo } from '../io.js';
+import { packageRoot } from '../../util/packageRoot.js';
 
-/** fixtures/demo of the checkout this module was built from, else of the working folder. */
+/** fixtures/demo of the package this module belongs to, else of the working folder. */
 function defaultFixtures(): string {
-  const beside = fileURLToPath(new URL('../../../../fixtures/demo', import.meta.url));
+  const beside = join(packageRoot(), 'fixtures', 'demo');
   return existsSync(beside) ? beside : 'fixtures/demo';
 }
 

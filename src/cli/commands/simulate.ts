@@ -1,4 +1,5 @@
 import { Command } from 'commander';
+import { availableParallelism } from 'node:os';
 import cliProgress from 'cli-progress';
 import { BitspanError } from '../../errors.js';
 import { simulate, type SimulateReport } from '../../pipeline/simulate.js';
@@ -20,6 +21,7 @@ interface SimulateFlags {
   seed: number;
   out: string;
   energy?: boolean;
+  threads: number;
   json?: boolean;
 }
 
@@ -66,6 +68,7 @@ export function simulateCommand(io: CliIo): Command {
     .option('--seed <n>', 'seed of the sampling and noise streams', nonNegativeInt('--seed'), 1)
     .requiredOption('--out <dir>', 'folder for t0.csv ... t<r-1>.csv and simulate.json (created if missing)')
     .option('--energy', 'also report <H> and its spread ||H psi - <H> psi|| for every state')
+    .option('--threads <n>', 'threads for the state-vector kernels (default: all cores; small registers use one)', positiveInt('--threads'), availableParallelism())
     .option('--json', 'print the report as one JSON object on stdout')
     .action(async (f: SimulateFlags) => {
       const noise: ShotNoise = { p01: f.readoutError?.[0] ?? 0, p10: f.readoutError?.[1] ?? 0, flip: f.flipNoise ?? 0 };
@@ -84,6 +87,7 @@ export function simulateCommand(io: CliIo): Command {
           seed: f.seed,
           out: f.out,
           energy: f.energy,
+          threads: f.threads,
           onProgress: (done) => bar?.update(done),
         });
         bar?.stop();
