@@ -30,7 +30,7 @@ export interface SimulateOptions {
   energy?: boolean;
   /** Threads for the state-vector kernels (this one and workers); 1 runs everything here. */
   threads?: number;
-  /** Called after each dump is written. */
+  /** Called after each dump is written, and with fractions in between (`done` may be fractional). */
   onProgress?: (done: number, total: number) => void;
 }
 
@@ -110,6 +110,7 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
     operator,
     kernels,
     shared,
+    onTick: (k, fraction) => opts.onProgress?.(k + fraction, opts.steps),
   });
   try {
     for (const s of evolution) {

@@ -31,8 +31,8 @@ export class ChebyshevPropagator {
     this.cur = createState(op.qubits, shared);
   }
 
-  /** ψ ← e^{−iHτ} ψ; returns the number of Chebyshev terms used. */
-  step(psi: StateVector, tau: number): number {
+  /** ψ ← e^{−iHτ} ψ; returns the number of Chebyshev terms used. `onTick` gets the fraction done. */
+  step(psi: StateVector, tau: number, onTick?: (fraction: number) => void): number {
     const { kernels, prev, cur } = this;
     const a = this.halfWidth;
     const b = this.center;
@@ -57,6 +57,7 @@ export class ChebyshevPropagator {
       p = c;
       c = t;
       kernels.addScaled(psi, c, ...weight(k, coeff[k]!, sign));
+      if (onTick && k % 4 === 0) onTick(k / coeff.length);
     }
     // Global phase e^{−ibτ} of the shift.
     kernels.scaleInPlace(psi, Math.cos(b * tau), -Math.sin(b * tau));

@@ -26,6 +26,8 @@ export interface EvolutionOptions {
   shared?: boolean;
   /** Also measure ⟨H⟩ and its spread ‖Hψ − ⟨H⟩ψ‖ for every state (one product with H each). */
   energy?: boolean;
+  /** Called during a step with the fraction of the step done (for progress bars). */
+  onTick?: (k: number, fraction: number) => void;
 }
 
 /** One evolved state. `state` is the evolving buffer itself: copy it to keep it past the next step. */
@@ -75,14 +77,17 @@ export function* evolveStates(h: PauliSum, initial: StateVector, opts: Evolution
       const bounds = { lower: Math.max(g.lower, c - op.normBound), upper: Math.min(g.upper, c + op.normBound) };
       const prop = new ChebyshevPropagator(op, kernels, bounds, opts.shared);
       for (let k = 1; k < opts.steps; k++) {
-        prop.step(psi, opts.dt);
+        prop.step(psi, opts.dt, opts.onTick && ((f: number) => opts.onTick!(k, f)));
         yield at(k, prop.matvecs);
       }
     } else {
       const m = opts.trotterSteps ?? 1;
       const prop = new TrotterPropagator(op, kernels, opts.method === 'trotter1' ? 1 : 2, opts.dt / m, opts.shared);
       for (let k = 1; k < opts.steps; k++) {
-        prop.step(psi, m);
+        for (let s = 0; s < m; s++) {
+          prop.step(psi, 1);
+          opts.onTick?.(k, (s + 1) / m);
+        }
         yield at(k, k * m);
       }
     }

@@ -93,10 +93,15 @@ export function phaseRange(psi: StateVector, cos: Float64Array, sin: Float64Arra
   }
 }
 
+/** Signed terms up to which a group's rotations are folded into one 2×2 matrix per sign pattern. */
+const MAX_TABLE_TERMS = 6;
+
 /**
- * The rotations e^{−iτ_k c_k P_k} of group g on pairs p0..p1. Pair p is (b, b ⊕ f) with b = p with a zero bit
- * inserted at the highest flipped qubit, so every pair is visited once. On a pair, e^{−iθP} is
- * [[cos θ, −w̄], [w, cos θ]] with w = −i·sin θ·ν·(−1)^{popcount(b & z)} and ν = i^{#Y}.
+ * The rotations e^{−iτ_k c_k P_k} of group g on pairs p0..p1. Pair p is (b, b ⊕ f) with b = p with a
+ * zero bit inserted at the highest flipped qubit, so every pair is visited once. On a pair,
+ * e^{−iθP} is [[cos θ, −w̄], [w, cos θ]] with w = −i·sin θ·ν·(−1)^{popcount(b & z)} and ν = i^{#Y}.
+ * The product over the group depends on b only through the signs of its terms with z ≠ 0, so it is
+ * tabulated once per sign pattern and each pair costs one 2×2 complex product.
  */
 export function rotatePairs(op: FullSpaceOperator, psi: StateVector, g: number, terms: Int32Array, taus: Float64Array, p0: number, p1: number): void {
   const { re, im } = psi;
@@ -109,9 +114,11 @@ export function rotatePairs(op: FullSpaceOperator, psi: StateVector, g: number, 
   const c = new Float64Array(nt);
   const wr = new Float64Array(nt);
   const wi = new Float64Array(nt);
+  const signed: number[] = [];
   for (let k = 0; k < nt; k++) {
     const t = terms[k]!;
     z[k] = op.zMasks[t]!;
+    if (z[k] !== 0) signed.push(z[k]!);
     const ny = popcount32(f & z[k]!) & 3;
     // phase = coeff·ν; recover coeff from the one nonzero part.
     const coeff = ny === 0 ? op.phaseRe[t]! : ny === 1 ? op.phaseIm[t]! : ny === 2 ? -op.phaseRe[t]! : -op.phaseIm[t]!;
@@ -123,6 +130,82 @@ export function rotatePairs(op: FullSpaceOperator, psi: StateVector, g: number, 
     wr[k] = s * nuIm;
     wi[k] = -s * nuRe;
   }
+  // Distinct signed masks index the pattern (a mask repeated in the group shares one bit).
+  const masks = [...new Set(signed)];
+  if (masks.length > MAX_TABLE_TERMS) {
+    rotatePairsTermwise(psi, f, z, c, wr, wi, p0, p1);
+    return;
+  }
+  // table[pattern] = 2×2 complex matrix (m00, m01, m10, m11 as re, im pairs).
+  const patterns = 1 << masks.length;
+  const table = new Float64Array(patterns * 8);
+  for (let pat = 0; pat < patterns; pat++) {
+    let m = [1, 0, 0, 0, 0, 0, 1, 0];
+    for (let k = 0; k < nt; k++) {
+      const bit = z[k] === 0 ? 0 : (pat >>> masks.indexOf(z[k]!)) & 1;
+      const sg = bit ? -1 : 1;
+      const xr = sg * wr[k]!;
+      const xi = sg * wi[k]!;
+      const ck = c[k]!;
+      // U = [[c, −w̄], [w, c]], m ← U·m.
+      const u = [ck, 0, -xr, xi, xr, xi, ck, 0];
+      m = mul2(u, m);
+    }
+    table.set(m, pat * 8);
+  }
+  const nm = masks.length;
+  const zm = Int32Array.from(masks);
+  for (let p = p0; p < p1; p++) {
+    const b = ((p >>> pivot) << (pivot + 1)) | (p & low);
+    const b2 = b ^ f;
+    let pat = 0;
+    for (let k = 0; k < nm; k++) pat |= (popcount32(b & zm[k]!) & 1) << k;
+    const o = pat * 8;
+    const ar = re[b]!;
+    const ai = im[b]!;
+    const br = re[b2]!;
+    const bi = im[b2]!;
+    const m00r = table[o]!;
+    const m00i = table[o + 1]!;
+    const m01r = table[o + 2]!;
+    const m01i = table[o + 3]!;
+    const m10r = table[o + 4]!;
+    const m10i = table[o + 5]!;
+    const m11r = table[o + 6]!;
+    const m11i = table[o + 7]!;
+    re[b] = m00r * ar - m00i * ai + m01r * br - m01i * bi;
+    im[b] = m00r * ai + m00i * ar + m01r * bi + m01i * br;
+    re[b2] = m10r * ar - m10i * ai + m11r * br - m11i * bi;
+    im[b2] = m10r * ai + m10i * ar + m11r * bi + m11i * br;
+  }
+}
+
+/** 2×2 complex product u·m, both as [m00, m01, m10, m11] (re, im) pairs. */
+function mul2(u: number[], m: number[]): number[] {
+  const out = new Array<number>(8);
+  for (let i = 0; i < 2; i++) {
+    for (let j = 0; j < 2; j++) {
+      let r = 0;
+      let s = 0;
+      for (let k = 0; k < 2; k++) {
+        const a = (i * 2 + k) * 2;
+        const b = (k * 2 + j) * 2;
+        r += u[a]! * m[b]! - u[a + 1]! * m[b + 1]!;
+        s += u[a]! * m[b + 1]! + u[a + 1]! * m[b]!;
+      }
+      out[(i * 2 + j) * 2] = r;
+      out[(i * 2 + j) * 2 + 1] = s;
+    }
+  }
+  return out;
+}
+
+/** The rotations term after term, for groups with too many sign patterns to tabulate. */
+function rotatePairsTermwise(psi: StateVector, f: number, z: Int32Array, c: Float64Array, wr: Float64Array, wi: Float64Array, p0: number, p1: number): void {
+  const { re, im } = psi;
+  const pivot = 31 - Math.clz32(f);
+  const low = (1 << pivot) - 1;
+  const nt = z.length;
   for (let p = p0; p < p1; p++) {
     const b = ((p >>> pivot) << (pivot + 1)) | (p & low);
     const b2 = b ^ f;

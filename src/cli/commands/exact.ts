@@ -4,7 +4,8 @@ import type { Qubit0 } from '../../io/bitstringParser.js';
 import { exact, type ExactReport } from '../../pipeline/exact.js';
 import type { CliIo } from '../io.js';
 import { collect, oneOf, positiveInt } from '../parse.js';
-import { addSolverOptions, sectorFromFlags, type SampleFlags } from '../sectorOptions.js';
+import { addSolverOptions } from '../sectorOptions.js';
+import { parseWeightSpec } from '../../sectors/sector.js';
 import { energyLine } from '../summary.js';
 
 interface ExactFlags {
@@ -55,7 +56,7 @@ export function exactCommand(io: CliIo): Command {
     .action(async (f: ExactFlags) => {
       const { report } = await exact({
         hamiltonian: f.hamiltonian,
-        sector: sectorFromFlags({ weight: f.weight, parity: f.parity } as SampleFlags),
+        sector: { weights: (f.weight ?? []).map((w) => parseWeightSpec(w)).map(({ lo, hi, weight }) => ({ lo, hi, weight })), parity: f.parity },
         qubits: f.qubits,
         eigs: f.eigs,
         tol: f.tol,

@@ -72,8 +72,8 @@ export function simulateCommand(io: CliIo): Command {
     .option('--json', 'print the report as one JSON object on stdout')
     .action(async (f: SimulateFlags) => {
       const noise: ShotNoise = { p01: f.readoutError?.[0] ?? 0, p10: f.readoutError?.[1] ?? 0, flip: f.flipNoise ?? 0 };
-      const bar = io.stderrIsTTY && !f.json ? new cliProgress.SingleBar({ stream: process.stderr, format: 'simulate [{bar}] {value}/{total} dumps | {duration_formatted}', hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
-      bar?.start(f.steps, 0);
+      const bar = io.stderrIsTTY && !f.json ? new cliProgress.SingleBar({ stream: process.stderr, format: 'simulate [{bar}] {percentage}% | {dumps}/{total} dumps | {duration_formatted} (eta {eta_formatted})', hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
+      bar?.start(f.steps, 0, { dumps: 0 });
       try {
         const report = await simulate({
           hamiltonian: f.hamiltonian,
@@ -88,7 +88,7 @@ export function simulateCommand(io: CliIo): Command {
           out: f.out,
           energy: f.energy,
           threads: f.threads,
-          onProgress: (done) => bar?.update(done),
+          onProgress: (done) => bar?.update(done, { dumps: Math.floor(done) }),
         });
         bar?.stop();
         io.stdout(f.json ? JSON.stringify(report, null, 2) + '\n' : simulateSummary(report, f.out));
