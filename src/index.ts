@@ -36,10 +36,11 @@ export { buildLattice, parseLatticeSize, siteQubit, describeLattice, type Lattic
 export type { ModelHamiltonian } from './operators/models/modelHamiltonian.js';
 export { enumerateSector, sectorDimension } from './sectors/enumerateSector.js';
 
-export { createState, copyState, normSquared, checkStateFits, MAX_SIM_QUBITS, type StateVector } from './sim/stateVector.js';
+export { createState, copyState, normSquared, innerProduct, checkStateFits, MAX_SIM_QUBITS, type StateVector } from './sim/stateVector.js';
 export { fullSpaceOperator, applyFullSpace, type FullSpaceOperator } from './sim/fullSpaceOperator.js';
 export { gershgorinBounds } from './sim/spectralBounds.js';
 export { LocalKernels, type SimKernels, type EnergyMoments } from './sim/simKernels.js';
+export { WorkerKernels } from './sim/workerKernels.js';
 export { ChebyshevPropagator } from './sim/chebyshevPropagator.js';
 export { TrotterPropagator } from './sim/trotterPropagator.js';
 export { besselJSequence } from './sim/besselJ.js';

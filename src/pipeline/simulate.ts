@@ -4,7 +4,8 @@ import { BitspanError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
 import { highestQubit } from '../operators/pauliSum.js';
-import { evolutionArrays, evolveStates, type EvolutionMethod } from '../sim/evolveStates.js';
+import { evolutionArrays, evolveStates, type EvolutionMethod, type EvolvedState } from '../sim/evolveStates.js';
+import { LocalKernels, type SimKernels } from '../sim/simKernels.js';
 import { initialConfiguration } from '../sim/initialState.js';
 import { NO_NOISE, sampleDump, type Dump, type ShotNoise } from '../sim/sampleDump.js';
 import { checkStateFits, createState, MAX_SIM_QUBITS } from '../sim/stateVector.js';
@@ -30,6 +31,11 @@ export interface SimulateOptions {
   energy?: boolean;
   /** Threads for the state-vector kernels (this one and workers); 1 runs everything here. */
   threads?: number;
+  /**
+   * Called with every evolved state before it is sampled (the buffer is reused: copy what you keep),
+   * with the kernels that act on it — e.g. to accumulate overlaps and ⟨ψ_j|H|ψ_k⟩.
+   */
+  onState?: (s: EvolvedState, kernels: SimKernels) => void;
   /** Called after each dump is written, and with fractions in between (`done` may be fractional). */
   onProgress?: (done: number, total: number) => void;
 }
@@ -85,7 +91,7 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
   const threads = qubits >= POOL_MIN_QUBITS ? Math.max(1, opts.threads ?? 1) : 1;
   const shared = threads > 1;
   const operator = fullSpaceOperator(h, qubits, shared);
-  const kernels = shared ? await WorkerKernels.start(operator, threads) : undefined;
+  const kernels: SimKernels = shared ? await WorkerKernels.start(operator, threads) : new LocalKernels(operator);
   const psi = createState(qubits, shared);
   psi.re[config] = 1;
   const report: SimulateReport = {
@@ -114,6 +120,7 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
   });
   try {
     for (const s of evolution) {
+      opts.onState?.(s, kernels);
       const t1 = performance.now();
       report.timings.evolve += (t1 - mark) / 1000;
       const dump = sampleDump(s.state, opts.shots, noise, opts.seed, s.k);
@@ -133,7 +140,7 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
       opts.onProgress?.(s.k + 1, opts.steps);
     }
   } finally {
-    kernels?.close();
+    kernels.close();
   }
   report.timings.total = (performance.now() - t0) / 1000;
   await writeFileAtomic(join(opts.out, 'simulate.json'), JSON.stringify(report, null, 2) + '\n');

@@ -58,3 +58,18 @@ export function normSquared(s: StateVector): number {
   for (let b = 0; b < s.dim; b++) n += re[b]! * re[b]! + im[b]! * im[b]!;
   return n;
 }
+
+/** ⟨a|b⟩ as [re, im] (a conjugated), e.g. for overlaps between evolved states. */
+export function innerProduct(a: StateVector, b: StateVector): [number, number] {
+  let re = 0;
+  let im = 0;
+  const ar = a.re;
+  const ai = a.im;
+  const br = b.re;
+  const bi = b.im;
+  for (let k = 0; k < a.dim; k++) {
+    re += ar[k]! * br[k]! + ai[k]! * bi[k]!;
+    im += ar[k]! * bi[k]! - ai[k]! * br[k]!;
+  }
+  return [re, im];
+}

@@ -51,7 +51,24 @@ describe('simulate', () => {
   it('simulate reports ⟨H⟩ with its spread, conserved by exact evolution', async () => {
     const dir = tempDir();
     const f = writeFiles(dir, { 'h.txt': RING6 });
-    const rep = await simulate({ hamiltonian: f['h.txt']!, initial: 'neel', dt: 0.4, steps: 3, shots: 10, evolution: 'exact', seed: 1, out: join(dir, 'o'), energy: true });
+    const seen: number[] = [];
+    const rep = await simulate({
+      hamiltonian: f['h.txt']!,
+      initial: 'neel',
+      dt: 0.4,
+      steps: 3,
+      shots: 10,
+      evolution: 'exact',
+      seed: 1,
+      out: join(dir, 'o'),
+      energy: true,
+      // The hook sees every evolved state with kernels that act on it.
+      onState: (s, kernels) => {
+        seen.push(s.k);
+        expect(kernels.energyMoments(s.state).first).toBeCloseTo(-1.5, 10);
+      },
+    });
+    expect(seen).toEqual([0, 1, 2]);
     // Néel on a 6-ring: ⟨H⟩ = −6/4, and ‖Hψ − ⟨H⟩ψ‖² = 6 flip-flop amplitudes of 1/2 (hand-derived).
     for (const d of rep.dumps) {
       expect(d.energy!).toBeCloseTo(-1.5, 10);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkStateFits, createState, normSquared } from '../../src/sim/stateVector.js';
+import { checkStateFits, createState, innerProduct, normSquared } from '../../src/sim/stateVector.js';
 import { BitspanError } from '../../src/errors.js';
 
 describe('checkStateFits', () => {
@@ -21,5 +21,19 @@ describe('createState', () => {
     expect(s.dim).toBe(16);
     expect(s.re.buffer).toBeInstanceOf(SharedArrayBuffer);
     expect(normSquared(s)).toBe(0);
+  });
+});
+
+describe('innerProduct', () => {
+  it('innerProduct conjugates its first argument: ⟨a|b⟩ = conj⟨b|a⟩, ⟨a|a⟩ = ‖a‖²', () => {
+    const a = createState(2);
+    const b = createState(2);
+    a.re[1] = 0.6;
+    a.im[1] = 0.8;
+    b.re[1] = 1;
+    b.im[2] = 1;
+    expect(innerProduct(a, b)).toEqual([0.6, -0.8]);
+    expect(innerProduct(b, a)).toEqual([0.6, 0.8]);
+    expect(innerProduct(a, a)[0]).toBeCloseTo(normSquared(a), 15);
   });
 });
