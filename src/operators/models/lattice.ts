@@ -42,8 +42,8 @@ export function siteQubit(spec: LatticeSpec, x: number, y: number): number {
 }
 
 /**
- * Parse `--size`: `L` or `LxW`. A chain is L×1, a ladder L×2 (legs of length L), a square or
- * triangular lattice given as `L` is L×L.
+ * Parse `--size`: `L` or `LxW`. A chain is L×1 (or 1×L), a ladder L×2 (or 2×L; legs of length L),
+ * a square or triangular lattice given as `L` is L×L.
  */
 export function parseLatticeSize(kind: LatticeKind, size: string): { lx: number; ly: number } {
   const m = /^\s*(\d+)\s*(?:[xX×]\s*(\d+))?\s*$/.exec(size);
@@ -52,8 +52,10 @@ export function parseLatticeSize(kind: LatticeKind, size: string): { lx: number;
     throw new BitspanError('bad-argument', `--size '${size}' ${why}`, `e.g. --size ${eg}`);
   };
   if (!m) return fail('is not L or LxW');
-  const lx = Number(m[1]);
+  let lx = Number(m[1]);
   let ly = m[2] === undefined ? (kind === 'chain' ? 1 : kind === 'ladder' ? 2 : lx) : Number(m[2]);
+  // A chain written 1xL or a ladder written 2xL: the legs are the long side.
+  if ((kind === 'chain' && lx === 1 && ly !== 1) || (kind === 'ladder' && lx === 2 && ly !== 2)) [lx, ly] = [ly, lx];
   if (kind === 'chain' && ly !== 1) fail('gives a width, but a chain has width 1');
   if (kind === 'ladder' && ly !== 2) fail('gives a width other than 2, but a ladder has two legs');
   if (lx < 1 || ly < 1) fail('has an empty side');

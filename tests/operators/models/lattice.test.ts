@@ -65,6 +65,8 @@ describe('parseLatticeSize', () => {
     expect(parseLatticeSize('ladder', '8')).toEqual({ lx: 8, ly: 2 });
     expect(parseLatticeSize('square', '4')).toEqual({ lx: 4, ly: 4 });
     expect(parseLatticeSize('triangular', '3x4')).toEqual({ lx: 3, ly: 4 });
+    expect(parseLatticeSize('ladder', '2x6')).toEqual({ lx: 6, ly: 2 });
+    expect(parseLatticeSize('chain', '1x5')).toEqual({ lx: 5, ly: 1 });
   });
 
   it('parseLatticeSize refuses malformed sizes with bad-argument', () => {
