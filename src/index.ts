@@ -52,3 +52,28 @@ export { jobPlan, writeJobPlan, readJobPlan, planFile, type JobPlan, type Planne
 export { collect, type Collected, type CollectRow, type CollectError } from './batch/collect.js';
 export { collectTable, type Table } from './batch/collectTable.js';
 export { taskFromEnv, sbatchScript, shellQuote, jobNameFor, ARRAY_VARIABLES, type ArrayVariable, type TaskFromEnv, type SbatchSettings } from './batch/schedulers.js';
+export { formatHamiltonianText } from './io/hamiltonianTextWriter.js';
+export { buildModel, type ModelSpec } from './operators/models/buildModel.js';
+export { heisenbergModel, type HeisenbergParams } from './operators/models/heisenberg.js';
+export { isingModel, type IsingParams } from './operators/models/ising.js';
+export { hubbardModel, hubbardNeel, type HubbardParams } from './operators/models/hubbard.js';
+export { buildLattice, parseLatticeSize, siteQubit, describeLattice, type Lattice, type LatticeSpec, type LatticeKind, type Boundary } from './operators/models/lattice.js';
+export type { ModelHamiltonian } from './operators/models/modelHamiltonian.js';
+export { enumerateSector, sectorDimension } from './sectors/enumerateSector.js';
+
+export { createState, copyState, normSquared, innerProduct, checkStateFits, MAX_SIM_QUBITS, type StateVector } from './sim/stateVector.js';
+export { fullSpaceOperator, applyFullSpace, type FullSpaceOperator } from './sim/fullSpaceOperator.js';
+export { gershgorinBounds } from './sim/spectralBounds.js';
+export { LocalKernels, type SimKernels, type EnergyMoments } from './sim/simKernels.js';
+export { WorkerKernels } from './sim/workerKernels.js';
+export { ChebyshevPropagator } from './sim/chebyshevPropagator.js';
+export { TrotterPropagator } from './sim/trotterPropagator.js';
+export { besselJSequence } from './sim/besselJ.js';
+export { evolveStates, evolutionArrays, type EvolutionMethod, type EvolutionOptions, type EvolvedState } from './sim/evolveStates.js';
+export { initialConfiguration, NAMED_STATES } from './sim/initialState.js';
+export { sampleDump, sampleShots, corruptShots, countShots, timeSeed, NO_NOISE, type ShotNoise, type Dump } from './sim/sampleDump.js';
+
+export { simulate, dumpCsv, type SimulateOptions, type SimulateReport } from './pipeline/simulate.js';
+export { exact, exactMemoryEstimate, type ExactOptions, type ExactReport, type ExactOutcome, type EnumeratedSamples } from './pipeline/exact.js';
+export { runDemo, readDemoManifest, type DemoOptions, type DemoReport, type DemoRow, type DemoManifest } from './pipeline/demo.js';
+export { DEMO_SCENARIO, type DemoScenario } from './pipeline/demoScenario.js';

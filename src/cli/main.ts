@@ -4,11 +4,15 @@ import { ERROR_FORMAT_ENV } from '../batch/runJob.js';
 import { batchCommand } from './commands/batch.js';
 import { collectCommand } from './commands/collect.js';
 import { solveCommand } from './commands/solve.js';
+import { modelCommand } from './commands/model.js';
+import { simulateCommand } from './commands/simulate.js';
+import { exactCommand } from './commands/exact.js';
+import { demoCommand } from './commands/demo.js';
 import type { CliIo } from './io.js';
 import { closeThreadPools } from '../parallel/threadPool.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
-const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, batchCommand, collectCommand];
+const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, modelCommand, simulateCommand, exactCommand, demoCommand, batchCommand, collectCommand];
 
 /**
  * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,

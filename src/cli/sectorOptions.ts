@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { parseMemorySize } from '../build/memoryPlan.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
 import type { SampleFormat } from '../io/readSamples.js';
 import { parseWeightSpec, type Sector } from '../sectors/sector.js';
@@ -42,7 +43,20 @@ export function addSolverOptions(cmd: Command): Command {
   return cmd
     .option('--eigs <k>', 'number of lowest eigenpairs', positiveInt('--eigs'), 1)
     .option('--tol <t>', 'converged when the residual norm is below tol times the largest |eigenvalue|', positiveNumber('--tol'), 1e-8)
-    .option('--seed <n>', 'seed of the Lanczos start vector', (v) => Number(positiveIntOrZero(v)), 1);
+    .option('--seed <n>', 'seed of the Lanczos start vector', (v) => Number(positiveIntOrZero(v)), 1)
+    .option('--threads <n>', "worker threads for the build and the products (default: the machine's cores)", positiveInt('--threads'))
+    .option('--memory <size>', 'memory budget, e.g. 4G (default: half the RAM); over it H is applied matrix-free', parseMemorySize)
+    .option('--matrix-free', 'apply H on the fly instead of storing the projected matrix');
+}
+
+/** Values of the solver flags. */
+export interface SolverFlags {
+  eigs: number;
+  tol: number;
+  seed: number;
+  threads?: number;
+  memory?: number;
+  matrixFree?: boolean;
 }
 
 function positiveIntOrZero(v: string): number {

@@ -3,12 +3,11 @@ import { writeFileAtomic } from '../../io/atomicWrite.js';
 import { solve } from '../../pipeline/solve.js';
 import type { CliIo } from '../io.js';
 import { positiveInt } from '../parse.js';
-import { parseMemorySize } from '../../build/memoryPlan.js';
-import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags } from '../sectorOptions.js';
+import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
 import { solveSummary } from '../summary.js';
 import { progressFor } from '../progress.js';
 
-interface SolveFlags extends SampleFlags {
+interface SolveFlags extends SampleFlags, SolverFlags {
   hamiltonian: string;
   samples: string[];
   eigs: number;
@@ -17,9 +16,6 @@ interface SolveFlags extends SampleFlags {
   json?: boolean;
   out?: string;
   top: number;
-  threads?: number;
-  memory?: number;
-  matrixFree?: boolean;
 }
 
 /** `bitspan solve`: the lowest energies of the Hamiltonian projected on the sampled configurations. */
@@ -31,9 +27,6 @@ export function solveCommand(io: CliIo): Command {
   addSolverOptions(cmd);
   cmd
     .option('--top <n>', 'most probable ground-state configurations to report', positiveInt('--top'), 10)
-    .option('--threads <n>', 'worker threads for the build (default: the machine\'s cores)', positiveInt('--threads'))
-    .option('--memory <size>', 'memory budget, e.g. 4G (default: half the RAM); over it H is applied matrix-free', parseMemorySize)
-    .option('--matrix-free', 'apply H on the fly instead of storing the projected matrix')
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
     .action(async (f: SolveFlags) => {
