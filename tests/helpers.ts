@@ -2,8 +2,6 @@ import { expect } from 'vitest';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import * as math from 'mathjs';
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { main } from '../src/cli/main.js';
 import { complexMatrix, type ComplexMatrix } from '../src/solvers/complexMatrix.js';
 import { seededNormal } from '../src/util/normal.js';
@@ -60,9 +58,15 @@ export interface KrylovFixture {
 /**
  * H̃_jk = ⟨ψ_j|H|ψ_k⟩ and S_jk = ⟨ψ_j|ψ_k⟩ for ψ_k = e^{−ikΔtH}ψ0, k = 0..r−1, with H the open
  * Heisenberg chain Σ (XX + YY + ZZ) + field·Σ Z on `qubits` sites built by mathjs `kron` and
- * ψ0 the Néel state |0101…⟩; the propagator is mathjs `expm` (outside references).
+ * ψ0 the Néel state |0101…⟩; the propagator is mathjs `expm` (outside references). Takes ~0.3 s at
+ * 4 sites and ~2 s at 6.
  */
-export function heisenbergKrylov(qubits: number, dt: number, r: number, field = 0): KrylovFixture {
+export async function heisenbergKrylov(qubits: number, dt: number, r: number, field = 0): Promise<KrylovFixture> {
+  // Imported here, not at the top, so test files that do not build Krylov matrices skip mathjs.
+  const math = await import('mathjs');
+  type MathMatrix = import('mathjs').Matrix;
+  type MathComplex = import('mathjs').Complex;
+  const { EigenvalueDecomposition, Matrix } = await import('ml-matrix');
   const pauli = {
     I: math.matrix([[1, 0], [0, 1]]),
     X: math.matrix([[0, 1], [1, 0]]),
@@ -70,36 +74,36 @@ export function heisenbergKrylov(qubits: number, dt: number, r: number, field = 
     Z: math.matrix([[1, 0], [0, -1]]),
   };
   const dim = 2 ** qubits;
-  const string = (ops: Record<number, 'X' | 'Y' | 'Z'>): math.Matrix => {
-    let m: math.Matrix = math.matrix([[1]]);
+  const string = (ops: Record<number, 'X' | 'Y' | 'Z'>): MathMatrix => {
+    let m: MathMatrix = math.matrix([[1]]);
     for (let q = 0; q < qubits; q++) m = math.kron(m, pauli[ops[q] ?? 'I']);
     return m;
   };
-  let hm: math.Matrix = math.multiply(0, string({})) as math.Matrix;
+  let hm: MathMatrix = math.multiply(0, string({})) as MathMatrix;
   for (let q = 0; q + 1 < qubits; q++) {
-    for (const p of ['X', 'Y', 'Z'] as const) hm = math.add(hm, string({ [q]: p, [q + 1]: p })) as math.Matrix;
+    for (const p of ['X', 'Y', 'Z'] as const) hm = math.add(hm, string({ [q]: p, [q + 1]: p })) as MathMatrix;
   }
-  for (let q = 0; q < qubits && field !== 0; q++) hm = math.add(hm, math.multiply(field, string({ [q]: 'Z' }))) as math.Matrix;
-  const hRows = (hm.toArray() as Array<Array<number | math.Complex>>).map((row) => row.map((x) => (typeof x === 'number' ? x : x.re)));
-  const u = math.expm(math.multiply(math.complex(0, -dt), math.matrix(hRows)) as math.Matrix);
+  for (let q = 0; q < qubits && field !== 0; q++) hm = math.add(hm, math.multiply(field, string({ [q]: 'Z' }))) as MathMatrix;
+  const hRows = (hm.toArray() as Array<Array<number | MathComplex>>).map((row) => row.map((x) => (typeof x === 'number' ? x : x.re)));
+  const u = math.expm(math.multiply(math.complex(0, -dt), math.matrix(hRows)) as MathMatrix);
   // Néel state: basis index with bits 0101… (which end is qubit 0 does not matter here).
   let neel = 0;
   for (let q = 0; q < qubits; q += 2) neel |= 1 << q;
-  const states: math.Matrix[] = [];
-  let psi: math.Matrix = math.matrix(Array.from({ length: dim }, (_, i) => (i === neel ? 1 : 0)));
+  const states: MathMatrix[] = [];
+  let psi: MathMatrix = math.matrix(Array.from({ length: dim }, (_, i) => (i === neel ? 1 : 0)));
   for (let k = 0; k < r; k++) {
     states.push(psi);
-    psi = math.multiply(u, psi) as math.Matrix;
+    psi = math.multiply(u, psi) as MathMatrix;
   }
-  const hStates = states.map((v) => math.multiply(math.matrix(hRows), v) as math.Matrix);
+  const hStates = states.map((v) => math.multiply(math.matrix(hRows), v) as MathMatrix);
   const h = complexMatrix(r);
   const s = complexMatrix(r);
   for (let j = 0; j < r; j++) {
     // mathjs `dot` conjugates its first argument: dot(a, b) = Σ conj(a_i) b_i.
     const bra = states[j]!;
     for (let k = 0; k < r; k++) {
-      const hjk = math.complex(math.dot(bra, hStates[k]!) as unknown as math.Complex);
-      const sjk = math.complex(math.dot(bra, states[k]!) as unknown as math.Complex);
+      const hjk = math.complex(math.dot(bra, hStates[k]!) as unknown as MathComplex);
+      const sjk = math.complex(math.dot(bra, states[k]!) as unknown as MathComplex);
       h.re[j * r + k] = hjk.re;
       h.im[j * r + k] = hjk.im;
       s.re[j * r + k] = sjk.re;

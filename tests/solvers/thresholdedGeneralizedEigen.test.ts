@@ -7,7 +7,7 @@ import { addHermitianNoise, closeTo, heisenbergKrylov } from '../helpers.js';
 
 // 4-site open Heisenberg chain, Néel start: 5 distinct reachable eigenvalues (counted in the fixture
 // from ml-matrix's eigen-decomposition of the mathjs-built Hamiltonian).
-const small = heisenbergKrylov(4, 0.3, 12);
+const small = await heisenbergKrylov(4, 0.3, 12);
 
 /** Real embedding [[A, −B], [B, A]] of a complex matrix, as ml-matrix. */
 function embed(a: ComplexMatrix): Matrix {
@@ -51,8 +51,8 @@ describe('thresholdedGeneralizedEigen', () => {
     expect(sol.residuals[0]!).toBeLessThan(1e-9);
   });
 
-  it('thresholdedGeneralizedEigen reproduces the exact ground energy of a 6-site chain at r = 14', () => {
-    const six = heisenbergKrylov(6, 0.3, 14);
+  it('thresholdedGeneralizedEigen reproduces the exact ground energy of a 6-site chain at r = 14', async () => {
+    const six = await heisenbergKrylov(6, 0.3, 14);
     expect(six.reachableDimension).toBe(14);
     const sol = thresholdedGeneralizedEigen(six.h, six.s, { threshold: 1e-13 * hermitianEigen(six.s).values[13]! });
     closeTo(sol.energies[0]!, six.exactGround, 1e-8, 'Krylov E0, 6 sites');
