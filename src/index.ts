@@ -26,3 +26,21 @@ export { symmetricEigen } from './solvers/symmetricEigen.js';
 
 export { solve, projectAndSolve, checkRegister, sectorReport, matrixOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
 export { seededUniform } from './util/random.js';
+
+export { complexMatrix, hermitianPart, leadingBlock, type ComplexMatrix } from './solvers/complexMatrix.js';
+export { hermitianEigen, type HermitianEigen } from './solvers/hermitianEigen.js';
+export { thresholdedGeneralizedEigen, type ThresholdedOptions, type ThresholdedSolution } from './solvers/thresholdedGeneralizedEigen.js';
+export { readKrylovMatrices, MAX_KRYLOV_DIMENSION, type KrylovSource, type KrylovMatrices, type MatrixOrigin } from './io/krylovMatrices.js';
+export { checkKrylovMatrices, CHECK_SIGMAS, CHECK_RELATIVE_TOLERANCE, type CheckedKrylovMatrices, type MatrixChecks } from './io/checkKrylovMatrices.js';
+export { lineChartSvg, type LineChart, type LineSeries } from './io/plotSvg.js';
+export { svgToPng } from './io/svgToPng.js';
+export { scanCsv } from './io/scanCsv.js';
+export { thresholdScanChart } from './io/thresholdScanChart.js';
+export { thresholdScan, SCAN_DEFAULTS, type ScanPoint, type ThresholdScanOptions } from './analysis/thresholdScan.js';
+export { findPlateau, defaultPlateauTolerance, type Plateau } from './analysis/plateau.js';
+export { overlapNoiseFloor } from './analysis/noiseFloor.js';
+export { firstOrderEnergyError } from './analysis/energyError.js';
+export { bootstrapEnergy, type BootstrapSummary } from './analysis/bootstrapEnergy.js';
+export { dimensionScan, type DimensionScanPoint } from './analysis/dimensionScan.js';
+export { krylov, type KrylovOptions, type KrylovReport, type KrylovSolutionReport, type KrylovOutcome } from './pipeline/krylov.js';
+export { seededNormal, type NormalSource } from './util/normal.js';

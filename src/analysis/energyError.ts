@@ -28,8 +28,8 @@ export function firstOrderEnergyError(cRe: ArrayLike<number>, cIm: ArrayLike<num
   return Math.sqrt(variance);
 }
 
-/** Variance of the (j,k) entry of ΔH̃ − E·ΔS, one part. */
-export function pairVariance(hErr: ComplexMatrix | null, sErr: ComplexMatrix | null, e2: number, j: number, k: number, part: 're' | 'im'): number {
+// Variance of the (j,k) entry of ΔH̃ − E·ΔS, one part.
+function pairVariance(hErr: ComplexMatrix | null, sErr: ComplexMatrix | null, e2: number, j: number, k: number, part: 're' | 'im'): number {
   return pairErrorSquared(hErr, j, k, part) + e2 * pairErrorSquared(sErr, j, k, part);
 }
 
