@@ -28,6 +28,7 @@ export function krylovSummary(r: KrylovReport): string {
   const how = r.thresholdSource === 'given' ? 'given' : r.thresholdSource === 'plateau' ? 'from the plateau' : 'at the noise floor (no plateau)';
   const t = `threshold ${r.threshold.toExponential(2)}`;
   lines.push(`threshold ${r.threshold.toExponential(3)} (${r.relativeThreshold.toExponential(2)} × largest eigenvalue of S), ${how}`);
+  if (r.threshold < r.noiseFloor) lines.push('note: the threshold is below the noise floor; some kept directions of S cannot be told from noise');
   lines.push(...energyLines('', r, r.dimension, t));
   if (r.bootstrap) {
     const b = r.bootstrap;

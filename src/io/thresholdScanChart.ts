@@ -35,7 +35,7 @@ export function thresholdScanChart(scan: ScanPoint[], plateau: Plateau | null, f
 
 function panel(scan: ScanPoint[], plateau: Plateau | null, floor: number, eigs: number, yDomain: [number, number], title: string, subtitle: string[]): LineChart {
   const series: LineSeries[] = [];
-  const outside: LineSeries = { name: 'beyond the energy axis (drawn at its edge)', points: [], unjoined: true };
+  const outside: LineSeries = { name: 'off the axis (drawn on edge)', points: [], unjoined: true };
   for (let k = 0; k < eigs; k++) {
     const points: LineSeries['points'] = [];
     for (const p of scan) {

@@ -8,6 +8,8 @@ export interface HermitianEigen {
   vectorsRe: Float64Array;
   vectorsIm: Float64Array;
   sweeps: number;
+  /** Whether a sweep found nothing left to rotate (always so far; kept for the solver contract). */
+  converged: boolean;
 }
 
 const MAX_SWEEPS = 100;
@@ -27,6 +29,7 @@ export function hermitianEigen(input: ComplexMatrix): HermitianEigen {
   const vIm = new Float64Array(n * n);
   for (let j = 0; j < n; j++) vRe[j * n + j] = 1;
   let sweeps = 0;
+  let converged = false;
   for (; sweeps < MAX_SWEEPS; sweeps++) {
     let rotated = false;
     for (let p = 0; p < n - 1; p++) {
@@ -91,7 +94,10 @@ export function hermitianEigen(input: ComplexMatrix): HermitianEigen {
         }
       }
     }
-    if (!rotated) break;
+    if (!rotated) {
+      converged = true;
+      break;
+    }
   }
   const order = Array.from({ length: n }, (_, i) => i).sort((x, y) => re[x * n + x]! - re[y * n + y]!);
   const values = new Float64Array(n);
@@ -104,5 +110,5 @@ export function hermitianEigen(input: ComplexMatrix): HermitianEigen {
       vectorsIm[j * n + k] = vIm[j * n + src]!;
     }
   });
-  return { n, values, vectorsRe, vectorsIm, sweeps };
+  return { n, values, vectorsRe, vectorsIm, sweeps, converged };
 }
