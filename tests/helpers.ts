@@ -4,6 +4,8 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../src/cli/main.js';
+import { complexMatrix, type ComplexMatrix } from '../src/solvers/complexMatrix.js';
+import { seededNormal } from '../src/util/normal.js';
 
 /** Assert |actual − expected| ≤ tol with a readable message. */
 export function closeTo(actual: number, expected: number, tol: number, what = 'value'): void {
@@ -131,4 +133,118 @@ export function hermitianEigenvalues(m: DenseComplex): number[] {
   }
   const values = new EigenvalueDecomposition(new Matrix(rows), { assumeSymmetric: true }).realEigenvalues.sort((a, b) => a - b);
   return values.filter((_, i) => i % 2 === 0);
+}
+
+/** Noise-free Krylov matrices of a small Heisenberg chain, built independently of bitspan's code. */
+export interface KrylovFixture {
+  h: ComplexMatrix;
+  s: ComplexMatrix;
+  /** Lowest eigenvalue of the dense Hamiltonian (ml-matrix). */
+  exactGround: number;
+  /** Number of distinct eigenvalues of H whose eigenspaces ψ0 overlaps: the reachable dimension. */
+  reachableDimension: number;
+}
+
+/**
+ * H̃_jk = ⟨ψ_j|H|ψ_k⟩ and S_jk = ⟨ψ_j|ψ_k⟩ for ψ_k = e^{−ikΔtH}ψ0, k = 0..r−1, with H the open
+ * Heisenberg chain Σ (XX + YY + ZZ) + field·Σ Z on `qubits` sites built by mathjs `kron` and
+ * ψ0 the Néel state |0101…⟩; the propagator is mathjs `expm` (outside references). Takes ~0.3 s at
+ * 4 sites and ~2 s at 6.
+ */
+export async function heisenbergKrylov(qubits: number, dt: number, r: number, field = 0): Promise<KrylovFixture> {
+  // Imported here, not at the top, so test files that do not build Krylov matrices skip mathjs.
+  const math = await import('mathjs');
+  type MathMatrix = import('mathjs').Matrix;
+  type MathComplex = import('mathjs').Complex;
+  const { EigenvalueDecomposition, Matrix } = await import('ml-matrix');
+  const pauli = {
+    I: math.matrix([[1, 0], [0, 1]]),
+    X: math.matrix([[0, 1], [1, 0]]),
+    Y: math.matrix([[0, math.complex(0, -1)], [math.complex(0, 1), 0]]),
+    Z: math.matrix([[1, 0], [0, -1]]),
+  };
+  const dim = 2 ** qubits;
+  const string = (ops: Record<number, 'X' | 'Y' | 'Z'>): MathMatrix => {
+    let m: MathMatrix = math.matrix([[1]]);
+    for (let q = 0; q < qubits; q++) m = math.kron(m, pauli[ops[q] ?? 'I']);
+    return m;
+  };
+  let hm: MathMatrix = math.multiply(0, string({})) as MathMatrix;
+  for (let q = 0; q + 1 < qubits; q++) {
+    for (const p of ['X', 'Y', 'Z'] as const) hm = math.add(hm, string({ [q]: p, [q + 1]: p })) as MathMatrix;
+  }
+  for (let q = 0; q < qubits && field !== 0; q++) hm = math.add(hm, math.multiply(field, string({ [q]: 'Z' }))) as MathMatrix;
+  const hRows = (hm.toArray() as Array<Array<number | MathComplex>>).map((row) => row.map((x) => (typeof x === 'number' ? x : x.re)));
+  const u = math.expm(math.multiply(math.complex(0, -dt), math.matrix(hRows)) as MathMatrix);
+  // Néel state: basis index with bits 0101… (which end is qubit 0 does not matter here).
+  let neel = 0;
+  for (let q = 0; q < qubits; q += 2) neel |= 1 << q;
+  const states: MathMatrix[] = [];
+  let psi: MathMatrix = math.matrix(Array.from({ length: dim }, (_, i) => (i === neel ? 1 : 0)));
+  for (let k = 0; k < r; k++) {
+    states.push(psi);
+    psi = math.multiply(u, psi) as MathMatrix;
+  }
+  const hStates = states.map((v) => math.multiply(math.matrix(hRows), v) as MathMatrix);
+  const h = complexMatrix(r);
+  const s = complexMatrix(r);
+  for (let j = 0; j < r; j++) {
+    // mathjs `dot` conjugates its first argument: dot(a, b) = Σ conj(a_i) b_i.
+    const bra = states[j]!;
+    for (let k = 0; k < r; k++) {
+      const hjk = math.complex(math.dot(bra, hStates[k]!) as unknown as MathComplex);
+      const sjk = math.complex(math.dot(bra, states[k]!) as unknown as MathComplex);
+      h.re[j * r + k] = hjk.re;
+      h.im[j * r + k] = hjk.im;
+      s.re[j * r + k] = sjk.re;
+      s.im[j * r + k] = sjk.im;
+    }
+  }
+  const eig = new EigenvalueDecomposition(new Matrix(hRows), { assumeSymmetric: true });
+  const values = eig.realEigenvalues;
+  const vectors = eig.eigenvectorMatrix;
+  const weights = values.map((_, n) => vectors.get(neel, n) ** 2);
+  const order = values.map((_, i) => i).sort((a, b) => values[a]! - values[b]!);
+  let reachable = 0;
+  for (let i = 0; i < order.length; ) {
+    let w = 0;
+    let j = i;
+    while (j < order.length && values[order[j]!]! - values[order[i]!]! < 1e-9) w += weights[order[j++]!]!;
+    if (w > 1e-12) reachable++;
+    i = j;
+  }
+  return { h, s, exactGround: values[order[0]!]!, reachableDimension: reachable };
+}
+
+/**
+ * A copy of `a` plus seeded Hermitian Gaussian noise: each pair (j,k),(k,j) gets re, im ~ N(0, eps²)
+ * once, conjugate-symmetrically; diagonal entries get real noise only.
+ */
+export function addHermitianNoise(a: ComplexMatrix, eps: number, seed: number): ComplexMatrix {
+  const g = seededNormal(seed);
+  const n = a.n;
+  const out = complexMatrix(n);
+  out.re.set(a.re);
+  out.im.set(a.im);
+  for (let j = 0; j < n; j++) {
+    for (let k = j; k < n; k++) {
+      const x = eps * g.next();
+      const y = j === k ? 0 : eps * g.next();
+      out.re[j * n + k] = out.re[j * n + k]! + x;
+      out.im[j * n + k] = out.im[j * n + k]! + y;
+      if (k !== j) {
+        out.re[k * n + j] = out.re[k * n + j]! + x;
+        out.im[k * n + j] = out.im[k * n + j]! - y;
+      }
+    }
+  }
+  return out;
+}
+
+/** An n×n error matrix with the same error on every real and imaginary part. */
+export function uniformErrors(n: number, sigma: number): ComplexMatrix {
+  const e = complexMatrix(n);
+  e.re.fill(sigma);
+  e.im.fill(sigma);
+  return e;
 }

@@ -3,6 +3,7 @@ import { BitspanError, exitStatusFor } from '../errors.js';
 import { ERROR_FORMAT_ENV } from '../batch/runJob.js';
 import { batchCommand } from './commands/batch.js';
 import { collectCommand } from './commands/collect.js';
+import { krylovCommand } from './commands/krylov.js';
 import { solveCommand } from './commands/solve.js';
 import { modelCommand } from './commands/model.js';
 import { simulateCommand } from './commands/simulate.js';
@@ -12,7 +13,7 @@ import type { CliIo } from './io.js';
 import { closeThreadPools } from '../parallel/threadPool.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
-const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, modelCommand, simulateCommand, exactCommand, demoCommand, batchCommand, collectCommand];
+const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, modelCommand, simulateCommand, exactCommand, demoCommand, krylovCommand, batchCommand, collectCommand];
 
 /**
  * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,
