@@ -40,9 +40,15 @@ function runBitspan(hamiltonian: string, samples: string, weight: number, thread
   return { ...JSON.parse(r.stdout), wall };
 }
 
+/** The real interpreter behind `python3` (a version-manager shim would add its own start-up to the peer's time). */
+const python = ((): string => {
+  const r = spawnSync('python3', ['-c', 'import sys; print(sys.executable)'], { encoding: 'utf8' });
+  return r.status === 0 && r.stdout.trim() ? r.stdout.trim() : 'python3';
+})();
+
 function runPeer(hamiltonian: string, samples: string, weight: number): Record<string, unknown> & { wall: number } {
   const t = performance.now();
-  const r = spawnSync('python3', [join(packageRoot(), 'bench', 'reference_pipeline.py'), '--hamiltonian', hamiltonian, '--samples', samples, '--weight', String(weight), '--json'], { encoding: 'utf8', maxBuffer: 1 << 26 });
+  const r = spawnSync(python, [join(packageRoot(), 'bench', 'reference_pipeline.py'), '--hamiltonian', hamiltonian, '--samples', samples, '--weight', String(weight), '--json'], { encoding: 'utf8', maxBuffer: 1 << 26 });
   const wall = (performance.now() - t) / 1000;
   if (r.status !== 0) throw new Error(`peer failed: ${r.stderr}`);
   return { ...JSON.parse(r.stdout), wall };
@@ -50,7 +56,7 @@ function runPeer(hamiltonian: string, samples: string, weight: number): Record<s
 
 function numpyTriad(): number | null {
   const code = 'import os\nos.environ["OPENBLAS_NUM_THREADS"]="1"\nimport numpy as np,time\nn=1<<25\na=np.zeros(n);b=np.ones(n);c=np.full(n,2.0);t=np.empty(n)\nbest=9e9\nfor r in range(6):\n  s=time.perf_counter();np.multiply(c,3.0,out=t);np.add(b,t,out=a);d=time.perf_counter()-s\n  best=min(best,d) if r else best\nprint(5*8*n/best/1e9)';
-  const r = spawnSync('python3', ['-c', code], { encoding: 'utf8' });
+  const r = spawnSync(python, ['-c', code], { encoding: 'utf8' });
   return r.status === 0 ? Number(r.stdout.trim()) : null;
 }
 
