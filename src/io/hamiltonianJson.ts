@@ -1,7 +1,7 @@
 import { BitspanError } from '../errors.js';
 import { MAX_QUBITS } from './bitstringParser.js';
 import { PauliSumBuilder, type PauliSum } from '../operators/pauliSum.js';
-import { parseCoefficient, parsePauliOps } from './hamiltonianText.js';
+import { checkSumFinite, parseCoefficient, parsePauliOps } from './hamiltonianText.js';
 import { parseJsonLocated } from './jsonSyntax.js';
 
 /** Parse the JSON form `{"qubits": N, "terms": [{"coeff": 0.25, "ops": "X0 X1"}]}`. */
@@ -23,6 +23,7 @@ export function parseHamiltonianJson(text: string, file: string): PauliSum {
   const terms = o.terms as unknown[];
   if (terms.length === 0) throw new BitspanError('file-empty', 'Hamiltonian has no terms', 'add at least one term', { file });
   const parsed: Array<{ coeff: number; ops: ReturnType<typeof parsePauliOps> }> = [];
+  const sums = new Map<string, number>();
   let maxIndex = -1;
   terms.forEach((t, i) => {
     if (typeof t !== 'object' || t === null) fail(`terms[${i}] is not an object`, 'each term is {"coeff": number, "ops": "X0 X1"}');
@@ -43,6 +44,7 @@ export function parseHamiltonianJson(text: string, file: string): PauliSum {
       throw e;
     }
     for (const [, q] of ops) if (q > maxIndex) maxIndex = q;
+    checkSumFinite(sums, coeff, ops, file, undefined, `terms[${i}]`);
     parsed.push({ coeff, ops });
   });
   const builder = new PauliSumBuilder(declared ?? maxIndex + 1);

@@ -1,5 +1,5 @@
 import { createReadStream, promises as fsp } from 'node:fs';
-import { BitspanError } from '../errors.js';
+import { BitspanError, type BitspanErrorCode } from '../errors.js';
 
 /** Longest line any reader accepts; longer ones are refused rather than buffered without bound. */
 export const MAX_LINE_CHARS = 1 << 20;
@@ -27,9 +27,10 @@ export async function checkReadable(file: string, what: string): Promise<number>
 
 /**
  * Stream the lines of a UTF-8 text file with 1-based line numbers, without holding the file in
- * memory. Strips a leading BOM and the CR of CRLF line ends.
+ * memory. Strips a leading BOM and the CR of CRLF line ends. A line over MAX_LINE_CHARS is refused
+ * with `tooLong` (the code of the format being read).
  */
-export async function* readLines(file: string): AsyncGenerator<{ text: string; line: number }> {
+export async function* readLines(file: string, tooLong: BitspanErrorCode = 'bad-samples'): AsyncGenerator<{ text: string; line: number }> {
   const stream = createReadStream(file, { encoding: 'utf8', highWaterMark: 1 << 20 });
   let carry = '';
   let line = 0;
@@ -52,7 +53,7 @@ export async function* readLines(file: string): AsyncGenerator<{ text: string; l
       }
       carry = data.slice(start);
       if (carry.length > MAX_LINE_CHARS) {
-        throw new BitspanError('bad-samples', `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a text file of the expected format', { file, line: line + 1 });
+        throw new BitspanError(tooLong, `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a text file of the expected format', { file, line: line + 1 });
       }
     }
   } catch (e) {

@@ -17,5 +17,5 @@ export async function readHamiltonian(file: string): Promise<PauliSum> {
     if (size > MAX_JSON_BYTES) throw new BitspanError('too-large', 'JSON Hamiltonian is larger than 512 MiB', 'use the text format, which is streamed', { file });
     return parseHamiltonianJson(await fsp.readFile(file, 'utf8'), file);
   }
-  return parseHamiltonianText(readLines(file), file);
+  return parseHamiltonianText(readLines(file, 'bad-hamiltonian'), file);
 }
