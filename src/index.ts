@@ -12,6 +12,8 @@ export { readHamiltonian } from './io/readHamiltonian.js';
 export { parseHamiltonianJson } from './io/hamiltonianJson.js';
 export { parseHamiltonianText } from './io/hamiltonianText.js';
 export { writeFileAtomic } from './io/atomicWrite.js';
+export { csvCell, csvRow } from './io/csvCell.js';
+export { resolveInside } from './io/safePath.js';
 
 export { parseWeightSpec, compileSector, inSector, describeSector, type Sector, type WeightConstraint, type CompiledSector } from './sectors/sector.js';
 export { selectSubspace, type SubspaceReport, type SampleAccount, type GroupAccount, type SelectOptions } from './sectors/selectSubspace.js';
