@@ -48,7 +48,13 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     const sink = {
       add(words: Uint32Array, count: number): void {
         table ??= new ConfigTable(parser.nWords, 1 << 14);
-        table.add(words, 0, count);
+        try {
+          table.add(words, 0, count);
+        } catch (e) {
+          // The dedupe table doubles as it grows; refuse cleanly when the next doubling cannot be had.
+          if (e instanceof RangeError) throw tooManyConfigs(table.size, parser.qubits, file);
+          throw e;
+        }
         shots += count;
       },
     };
@@ -71,6 +77,15 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     groups.push({ file, rows, shots, table });
   }
   return { qubits: parser.qubits, nWords: parser.nWords, groups };
+}
+
+function tooManyConfigs(size: number, qubits: number, file: string): BitspanError {
+  return new BitspanError(
+    'too-large',
+    `cannot hold more than ${size} distinct ${qubits}-qubit configurations in memory`,
+    'split the run into smaller sets of dumps, or drop rare configurations before reading',
+    { file },
+  );
 }
 
 function resolveFormat(file: string, format: SampleFormat): Exclude<SampleFormat, 'auto'> {
