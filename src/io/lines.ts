@@ -48,7 +48,9 @@ export async function* readLines(file: string, tooLong: BitspanErrorCode = 'bad-
         if (nl < 0) break;
         line++;
         const end = nl > start && data.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
-        yield { text: data.slice(start, end), line };
+        const text = data.slice(start, end);
+        if (text.includes('\r')) throw loneCr(file, line, tooLong);
+        yield { text, line };
         start = nl + 1;
       }
       carry = data.slice(start);
@@ -63,8 +65,14 @@ export async function* readLines(file: string, tooLong: BitspanErrorCode = 'bad-
   }
   if (carry.length > 0) {
     line++;
-    yield { text: carry.endsWith('\r') ? carry.slice(0, -1) : carry, line };
+    const text = carry.endsWith('\r') ? carry.slice(0, -1) : carry;
+    if (text.includes('\r')) throw loneCr(file, line, tooLong);
+    yield { text, line };
   }
+}
+
+function loneCr(file: string, line: number, code: BitspanErrorCode): BitspanError {
+  return new BitspanError(code, 'line ends with a lone carriage return (CR) inside the line', 'save the file with LF or CRLF line ends', { file, line });
 }
 
 /** Strict non-negative decimal count: no hex, no Infinity, no empty string. */

@@ -46,7 +46,7 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     let table: ConfigTable | undefined;
     let shots = 0;
     const sink = {
-      add(words: Uint32Array, count: number): void {
+      add(words: Uint32Array, count: number, line: number): void {
         table ??= new ConfigTable(parser.nWords, 1 << 14);
         try {
           table.add(words, 0, count);
@@ -56,6 +56,10 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
           throw e;
         }
         shots += count;
+        // Counts are non-negative, so a finite total keeps every per-configuration sum finite too.
+        if (!Number.isFinite(shots)) {
+          throw new BitspanError('bad-samples', 'counts add up beyond the double range (about 1.8e308)', 'check the count column', { file, line });
+        }
       },
     };
     const format = resolveFormat(file, opts.format ?? 'auto');

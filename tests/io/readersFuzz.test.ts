@@ -193,6 +193,27 @@ describe('sample readers under fuzzing', () => {
     await fuzzReader(samplesReader('json', '.json'), fc.constantFrom('', '{}', '[]', '{"' + longLine(MAX_LINE_CHARS + 5) + '": 1}', '{"0101": ' + longLine(100, '9') + '}', '{"01\\u0030": 1}', '{"0101": 1} {"0101": 1}'), 72, undefined, 20);
   });
 
+  it('readSamples reads CSV with lone CR line ends through csv-parse and refuses them in text with a hint', async () => {
+    const rows = [{ bits: '0101', count: 3 }, { bits: '1010', count: 2 }, { bits: '0101', count: 1 }];
+    const csv = ['bitstring,count', ...rows.map((r) => `${r.bits},${r.count}`)].join('\r') + '\r';
+    expectParsed(await readUnderContract(samplesReader('csv', '.csv'), csv), expectedCounts(rows, true));
+    expect((await readUnderContract(csvPathReader('fast'), csv)).ok).toBe('deferred');
+    const text = await readUnderContract(samplesReader('text', '.txt'), '0101\r1010\r');
+    expect(text.ok).toBe(false);
+    if (text.ok === false) expect([text.error.code, text.error.line, text.error.hint]).toEqual(['bad-samples', 1, 'save the file with LF or CRLF line ends']);
+  });
+
+  it('readSamples refuses counts whose total overflows the double range, on the row that overflows', async () => {
+    for (const [r, text] of [
+      [samplesReader('csv', '.csv'), 'bitstring,count\n01,1e308\n10,1e308\n'],
+      [samplesReader('json', '.json'), '{"01": 1e308,\n "01": 1e308}'],
+    ] as const) {
+      const o = await readUnderContract(r, text);
+      expect(o.ok).toBe(false);
+      if (o.ok === false) expect([o.error.code, o.error.line]).toEqual(['bad-samples', r.ext === '.csv' ? 3 : 2]);
+    }
+  });
+
   it('readSamples accepts mixed LF and CRLF line ends with a BOM in every format', async () => {
     await fc.assert(
       fc.asyncProperty(dumpArb.chain((rows) => fc.tuple(fc.constant(rows), withLineEnds(['bitstring,count', ...rows.map((r) => `${r.bits},${r.count}`)]), withLineEnds(rows.map((r) => r.bits)))), async ([rows, csv, text]) => {
