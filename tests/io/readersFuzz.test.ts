@@ -45,13 +45,8 @@ function csvPathReader(path: 'fast' | 'csv-parse'): ReaderUnderTest<Counts> {
   };
 }
 
-// JSON structure errors name the term (`terms[3]`) instead of a line; syntax errors carry the line.
-const hamiltonianReader = (ext: string): ReaderUnderTest<PauliSum> => ({
-  name: `readHamiltonian(${ext})`,
-  ext,
-  read: readHamiltonian,
-  needsLine: ext === '.json' ? (e) => /JSON/.test(e.message) : (e) => e.code === 'bad-hamiltonian',
-});
+// Every Hamiltonian error but an empty file names a line (JSON structure errors: where the value starts).
+const hamiltonianReader = (ext: string): ReaderUnderTest<PauliSum> => ({ name: `readHamiltonian(${ext})`, ext, read: readHamiltonian, needsLine: (e) => e.code === 'bad-hamiltonian' });
 
 // ---- valid sample dumps with an independent expectation ----
 
@@ -319,6 +314,14 @@ describe('Hamiltonian readers under fuzzing', () => {
       (_i, o) => expect(o.ok).toBe(false),
       60,
     );
+  });
+
+  it('readHamiltonian names the line of the offending term in a JSON Hamiltonian', async () => {
+    const text = '{\n "qubits": 4,\n "terms": [\n  {"coeff": 1, "ops": "Z0"},\n  {"coeff": 1,\n   "ops": "X9"}\n ]\n}';
+    const o = await readUnderContract(hamiltonianReader('.json'), text);
+    expect(o.ok === false && [o.error.code, o.error.line]).toEqual(['bad-hamiltonian', 6]);
+    const q = await readUnderContract(hamiltonianReader('.json'), '{\n "terms": [],\n\n "qubits": "4"}');
+    expect(q.ok === false && [q.error.code, q.error.line]).toEqual(['bad-hamiltonian', 4]);
   });
 
   it('readHamiltonian refuses like terms whose coefficients sum beyond the double range', async () => {
