@@ -24,9 +24,10 @@ export type CliWorkerMessage = { out: string } | { err: string } | { status: num
  * deliver to an idle main thread: the worker may sit in a long synchronous Lanczos loop or an
  * Atomics wait. On a signal the worker (and its own workers) is terminated, temporary output files
  * it had in flight are removed, earlier outputs are never touched, and the process exits 130/143.
- * Resolves with the exit status of a run that was not interrupted.
+ * Resolves with the exit status of a run that was not interrupted. `script` replaces
+ * `workers/cli.js` (tests use it to stand in a worker that never finishes).
  */
-export function runCliSupervised(argv: string[]): Promise<number> {
+export function runCliSupervised(argv: string[], opts: { script?: string } = {}): Promise<number> {
   const channel = new MessageChannel();
   const temps = new Set<string>();
   const track = (m: { tmp: string; pending: boolean }): void => {
@@ -36,7 +37,7 @@ export function runCliSupervised(argv: string[]): Promise<number> {
   channel.port1.on('message', track);
   channel.port1.unref();
   const data: CliWorkerData = { argv, stderrIsTTY: Boolean(process.stderr.isTTY), temps: channel.port2 };
-  const worker = new Worker(workerScript('cli'), { workerData: data, transferList: [channel.port2] });
+  const worker = new Worker(opts.script ?? workerScript('cli'), { workerData: data, transferList: [channel.port2] });
 
   let interrupted = false;
   const onSignal = (signal: keyof typeof SIGNAL_STATUS): void => {

@@ -42,6 +42,46 @@ function interrupt(signal: NodeJS.Signals, delayMs: number, out: string): Promis
   });
 }
 
+describe('runCliSupervised with a worker stuck in a synchronous loop', () => {
+  it('runCliSupervised stops a busy worker on SIGINT and removes the temporary file it had announced', async () => {
+    const work = tempDir('bitspan-signal-busy-');
+    const tmp = join(work, '.result.json.tmp-busy');
+    const earlier = join(work, 'result.json');
+    writeFileSync(earlier, 'earlier\n');
+    // A stand-in for the CLI worker: announce and create a temporary output, then never yield.
+    writeFileSync(
+      join(work, 'busy.mjs'),
+      `import { workerData, parentPort } from 'node:worker_threads';
+import { writeFileSync } from 'node:fs';
+workerData.temps.postMessage({ tmp: ${JSON.stringify(tmp)}, pending: true });
+writeFileSync(${JSON.stringify(tmp)}, 'partial');
+parentPort.postMessage({ err: 'ready\\n' });
+for (;;) {}
+`,
+    );
+    writeFileSync(join(work, 'driver.mjs'), `import { runCliSupervised } from ${JSON.stringify(join(root, 'dist/src/cli/signals.js'))};\nprocess.exitCode = await runCliSupervised([], { script: ${JSON.stringify(join(work, 'busy.mjs'))} });\n`);
+    const p = spawn(process.execPath, [join(work, 'driver.mjs')], { stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderr = '';
+    let sent = 0;
+    const done = new Promise<{ code: number | null }>((resolve, reject) => {
+      const guard = setTimeout(() => (p.kill('SIGKILL'), reject(new Error('not stopped within 20 s'))), 30_000);
+      p.on('exit', (code) => (clearTimeout(guard), resolve({ code })));
+    });
+    p.stderr.on('data', (d) => {
+      stderr += d;
+      if (!sent && stderr.includes('ready')) {
+        sent = Date.now();
+        p.kill('SIGINT');
+      }
+    });
+    const { code } = await done;
+    expect(code).toBe(130);
+    expect(existsSync(tmp)).toBe(false);
+    expect(readFileSync(earlier, 'utf8')).toBe('earlier\n');
+    console.log(`busy worker: process gone ${Date.now() - sent} ms after SIGINT`);
+  });
+});
+
 describe('bin.js under SIGINT/SIGTERM', () => {
   beforeAll(async () => {
     expect(existsSync(bin)).toBe(true);
