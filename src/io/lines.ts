@@ -27,10 +27,10 @@ export async function checkReadable(file: string, what: string): Promise<number>
 
 /**
  * Stream the lines of a UTF-8 text file with 1-based line numbers, without holding the file in
- * memory. Strips a leading BOM and the CR of CRLF line ends. A line over MAX_LINE_CHARS is refused
- * with `tooLong` (the code of the format being read).
+ * memory. Strips a leading BOM and the CR of CRLF line ends. A line over MAX_LINE_CHARS, or one
+ * holding a lone CR, is refused with `code` (the error code of the format being read).
  */
-export async function* readLines(file: string, tooLong: BitspanErrorCode = 'bad-samples'): AsyncGenerator<{ text: string; line: number }> {
+export async function* readLines(file: string, code: BitspanErrorCode = 'bad-samples'): AsyncGenerator<{ text: string; line: number }> {
   const stream = createReadStream(file, { encoding: 'utf8', highWaterMark: 1 << 20 });
   let carry = '';
   let line = 0;
@@ -49,24 +49,24 @@ export async function* readLines(file: string, tooLong: BitspanErrorCode = 'bad-
         line++;
         const end = nl > start && data.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
         const text = data.slice(start, end);
-        if (text.includes('\r')) throw loneCr(file, line, tooLong);
+        if (text.includes('\r')) throw loneCr(file, line, code);
         yield { text, line };
         start = nl + 1;
       }
       carry = data.slice(start);
       if (carry.length > MAX_LINE_CHARS) {
-        throw new BitspanError(tooLong, `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a text file of the expected format', { file, line: line + 1 });
+        throw new BitspanError(code, `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a text file of the expected format', { file, line: line + 1 });
       }
     }
   } catch (e) {
     if (e instanceof BitspanError) throw e;
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new BitspanError('file-unreadable', `cannot read file (${code ?? String(e)})`, 'check the path and permissions', { file });
+    const errno = (e as NodeJS.ErrnoException).code;
+    throw new BitspanError('file-unreadable', `cannot read file (${errno ?? String(e)})`, 'check the path and permissions', { file });
   }
   if (carry.length > 0) {
     line++;
     const text = carry.endsWith('\r') ? carry.slice(0, -1) : carry;
-    if (text.includes('\r')) throw loneCr(file, line, tooLong);
+    if (text.includes('\r')) throw loneCr(file, line, code);
     yield { text, line };
   }
 }
