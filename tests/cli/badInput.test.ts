@@ -101,8 +101,27 @@ describe('bitspan solve on malformed input', () => {
     expectOneLineFailure(r, '--memory 64');
     expect(r.stderr).toContain('--max-dim');
     expect(r.stderr).toContain('--memory');
-    const bad = await runCli(['solve', '--hamiltonian', f['h.txt']!, '--samples', f['good.csv']!, '--memory', 'lots']);
-    expectOneLineFailure(bad, '--memory lots');
+    expect(r.stderr).toMatch(/over the 64 bytes budget/);
+    for (const size of ['lots', '0', '0.1']) {
+      const bad = await runCli(['solve', '--hamiltonian', f['h.txt']!, '--samples', f['good.csv']!, '--memory', size]);
+      expectOneLineFailure(bad, `--memory ${size}`);
+      expect(bad.stderr).toContain('--memory');
+    }
+  });
+
+  it('runCli between the matrix-free and the stored footprint applies H matrix-free with the same energy', async () => {
+    const dir = tempDir();
+    const f = writeFiles(dir, { 'h.txt': HEIS4, 'good.csv': GOOD_CSV });
+    const stored = JSON.parse((await runCli(['solve', '--hamiltonian', f['h.txt']!, '--samples', f['good.csv']!, '--json'])).stdout);
+    expect(stored.storage).toBe('stored');
+    // A budget just below the stored estimate but above the matrix-free one.
+    const budget = stored.memory.estimatedBytes - 1;
+    const r = await runCli(['solve', '--hamiltonian', f['h.txt']!, '--samples', f['good.csv']!, '--json', '--memory', String(budget)]);
+    expect(r.status, r.stderr).toBe(0);
+    const free = JSON.parse(r.stdout);
+    expect(free.storage).toBe('matrix-free');
+    expect(free.memory.reason).toContain('would exceed');
+    expect(Math.abs(free.energies[0] - stored.energies[0])).toBeLessThan(1e-10);
   });
 
   it('bin.js (compiled, real process) exits 2 with one line and writes nothing on a malformed dump', () => {
