@@ -28,7 +28,11 @@ export const FILE_LEVEL_CODES = new Set(['file-empty', 'file-unreadable', 'too-l
 /** What one run of a reader on one input gave. */
 export type ReadOutcome<T> = { ok: true; value: T } | { ok: false; error: BitspanError } | { ok: 'deferred' };
 
-/** Milliseconds a reader may take on one small fuzz input before it counts as hung. */
+/**
+ * Milliseconds a reader may take on one small fuzz input before it counts as hung. This catches
+ * stalls in asynchronous reading (a stream never ending, a promise never settling); a synchronous
+ * endless loop would hold the test process itself and is left to vitest's timeouts.
+ */
 export const HANG_MS = 10_000;
 
 let dir: string | undefined;
