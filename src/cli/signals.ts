@@ -61,12 +61,21 @@ export function runCliSupervised(argv: string[], opts: { script?: string } = {})
   process.on('SIGINT', onInt);
   process.on('SIGTERM', onTerm);
 
+  // A reader that stops early (`| head`) closes the pipe: drop the rest of the output quietly and let
+  // the run finish (its --out file included) instead of dying on EPIPE with a stack trace.
+  let stdoutOpen = true;
+  let stderrOpen = true;
+  process.stdout.on('error', () => (stdoutOpen = false));
+  process.stderr.on('error', () => (stderrOpen = false));
+
   return new Promise((resolve) => {
     let status: number | undefined;
     worker.on('message', (m: CliWorkerMessage) => {
-      if ('out' in m) process.stdout.write(m.out);
-      else if ('err' in m) process.stderr.write(m.err);
-      else status = m.status;
+      if ('out' in m) {
+        if (stdoutOpen) process.stdout.write(m.out);
+      } else if ('err' in m) {
+        if (stderrOpen) process.stderr.write(m.err);
+      } else status = m.status;
     });
     worker.on('error', (e) => {
       if (interrupted) return;

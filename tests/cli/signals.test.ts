@@ -42,6 +42,20 @@ function interrupt(signal: NodeJS.Signals, delayMs: number, out: string): Promis
   });
 }
 
+describe('runCliSupervised with a closed stdout', () => {
+  it('runCliSupervised finishes quietly when the reader of stdout goes away early (| head)', async () => {
+    const args = [bin, 'solve', '--hamiltonian', join(root, 'fixtures/quickstart/heisenberg.txt'), '--samples', join(root, 'fixtures/quickstart/samples.csv'), '--weight', '8', '--top', '5000', '--json'];
+    const p = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderr = '';
+    p.stderr.on('data', (d) => (stderr += d));
+    // Read the first chunk only, then close our end of the pipe, as `head -c` does.
+    p.stdout.once('data', () => p.stdout.destroy());
+    const code = await new Promise<number | null>((resolve) => p.on('exit', (c) => resolve(c)));
+    expect(stderr).not.toMatch(/EPIPE|\n\s+at /);
+    expect(code).toBe(0);
+  });
+});
+
 describe('runCliSupervised with a worker stuck in a synchronous loop', () => {
   it('runCliSupervised stops a busy worker on SIGINT and removes the temporary file it had announced', async () => {
     const work = tempDir('bitspan-signal-busy-');
