@@ -13,7 +13,8 @@ export { parseHamiltonianJson } from './io/hamiltonianJson.js';
 export { parseHamiltonianText } from './io/hamiltonianText.js';
 export { writeFileAtomic } from './io/atomicWrite.js';
 export { parseJsonWithLines, type JsonWithLines, type JsonPath } from './io/jsonWithLines.js';
-export { formatCsv, csvCell, type CsvCell } from './io/formatCsv.js';
+export { formatCsv, csvCell, csvRow, type CsvCell } from './io/formatCsv.js';
+export { resolveInside } from './io/safePath.js';
 
 export { parseWeightSpec, compileSector, inSector, describeSector, type Sector, type WeightConstraint, type CompiledSector } from './sectors/sector.js';
 export { selectSubspace, type SubspaceReport, type SampleAccount, type GroupAccount, type SelectOptions } from './sectors/selectSubspace.js';

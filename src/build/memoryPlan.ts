@@ -24,7 +24,20 @@ export function parseMemorySize(text: string): number {
   const m = /^\s*(\d+(?:\.\d+)?)\s*([kmgt]?)(i?b)?\s*$/i.exec(text);
   if (!m) throw new BitspanError('bad-argument', `--memory '${text}' is not a size`, 'e.g. --memory 4G or --memory 512M');
   const unit = { '': 1, k: 2 ** 10, m: 2 ** 20, g: 2 ** 30, t: 2 ** 40 }[m[2]!.toLowerCase() as '' | 'k' | 'm' | 'g' | 't'];
-  return Math.floor(Number(m[1]) * unit);
+  const bytes = Math.floor(Number(m[1]) * unit);
+  if (bytes < 1) throw new BitspanError('bad-argument', `--memory '${text}' is no memory at all`, 'e.g. --memory 4G or --memory 512M');
+  return bytes;
+}
+
+/** A byte count in the largest binary unit that keeps it at least 1, e.g. `3.50 MiB`. */
+function formatBytes(x: number): string {
+  const units = ['bytes', 'KiB', 'MiB', 'GiB', 'TiB'];
+  let u = 0;
+  while (u < units.length - 1 && x >= 1024) {
+    x /= 1024;
+    u++;
+  }
+  return u === 0 ? `${x} bytes` : `${x.toFixed(2)} ${units[u]}`;
 }
 
 /** Lanczos vectors held at once for `eigs` pairs (see solvers/lanczos.ts). */
@@ -66,10 +79,9 @@ export function planMemory(basis: Basis, groups: FlipGroups, test: SectorFlipTes
   }
   const freeTotal = basisBytes + freeBytes;
   if (freeTotal > budget) {
-    const gib = (x: number): string => `${(x / 2 ** 30).toFixed(2)} GiB`;
     throw new BitspanError(
       'too-large',
-      `dimension ${dim} needs about ${gib(freeTotal)} even without storing the matrix (basis ${gib(basisBytes)}, Lanczos vectors ${gib(freeBytes)}), over the ${gib(budget)} budget`,
+      `dimension ${dim} needs about ${formatBytes(freeTotal)} even without storing the matrix (basis ${formatBytes(basisBytes)}, Lanczos vectors ${formatBytes(freeBytes)}), over the ${formatBytes(budget)} budget`,
       'lower --max-dim, ask for fewer --eigs, or raise --memory if the machine has the RAM',
     );
   }
@@ -78,6 +90,6 @@ export function planMemory(basis: Basis, groups: FlipGroups, test: SectorFlipTes
     budgetBytes: budget,
     nonzerosEstimate: nnz,
     bytes: { basis: basisBytes, matrix: 0, solver: freeBytes, total: freeTotal },
-    reason: opts.matrixFree ? 'requested with --matrix-free' : `a stored matrix (~${(matrixBytes / 2 ** 30).toFixed(2)} GiB) would exceed the memory budget`,
+    reason: opts.matrixFree ? 'requested with --matrix-free' : `a stored matrix (~${formatBytes(matrixBytes)}) would exceed the memory budget`,
   };
 }

@@ -1,5 +1,4 @@
 #!/usr/bin/env node
-import { main } from './main.js';
-import { processIo } from './io.js';
+import { runCliSupervised } from './signals.js';
 
-process.exitCode = await main(process.argv.slice(2), processIo());
+process.exitCode = await runCliSupervised(process.argv.slice(2));

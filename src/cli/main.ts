@@ -47,7 +47,7 @@ function reportError(e: unknown, io: CliIo): number {
     if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help') return 0;
     return 2;
   }
-  const err = unwrap(e);
+  const err = outOfMemory(unwrap(e)) ?? unwrap(e);
   // Under `bitspan batch` the one error line is JSON, so the batch can record code and place.
   const asJson = io.env[ERROR_FORMAT_ENV] === 'json';
   if (err instanceof BitspanError) {
@@ -67,4 +67,13 @@ function unwrap(e: unknown): unknown {
   let cur = e;
   for (let i = 0; i < 5 && cur instanceof Error && !(cur instanceof BitspanError) && cur.cause; i++) cur = cur.cause;
   return cur;
+}
+
+/**
+ * A typed-array allocation the memory plan did not foresee (e.g. while deduplicating dumps) as a
+ * `too-large` refusal naming the options that help, instead of an internal fault.
+ */
+export function outOfMemory(e: unknown): BitspanError | undefined {
+  if (!(e instanceof RangeError) || !/allocation failed|Invalid (typed )?array (buffer )?length|Array buffer allocation/i.test(e.message)) return undefined;
+  return new BitspanError('too-large', `not enough memory (${e.message})`, 'lower --max-dim, use --matrix-free, or set --memory below what the machine can give');
 }

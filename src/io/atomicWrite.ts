@@ -4,6 +4,8 @@ import { BitspanError } from '../errors.js';
 
 /** Temporary files in flight, removed by `removePendingTemps` when a run is interrupted. */
 const pending = new Set<string>();
+/** Told of every temporary file as it starts and stops being pending (see `watchPendingTemps`). */
+let watcher: ((tmp: string, pendingNow: boolean) => void) | undefined;
 
 /**
  * Write `data` to `file` atomically: a temporary file in the same folder, fsync, then rename, so a
@@ -13,6 +15,7 @@ export async function writeFileAtomic(file: string, data: string | Uint8Array): 
   const dir = dirname(file);
   const tmp = join(dir, `.${basename(file)}.tmp-${process.pid}-${Math.random().toString(36).slice(2, 10)}`);
   pending.add(tmp);
+  watcher?.(tmp, true);
   try {
     const fh = await fsp.open(tmp, 'w');
     try {
@@ -28,7 +31,16 @@ export async function writeFileAtomic(file: string, data: string | Uint8Array): 
     throw new BitspanError('output-unwritable', `cannot write output (${code ?? String(e)})`, 'check that the folder exists and is writable', { file });
   } finally {
     pending.delete(tmp);
+    watcher?.(tmp, false);
   }
+}
+
+/**
+ * Report each temporary file when it is created and when it is renamed or removed, so a thread
+ * other than the writer (the CLI's signal handler) can clean up after an interrupted write.
+ */
+export function watchPendingTemps(listener: ((tmp: string, pendingNow: boolean) => void) | undefined): void {
+  watcher = listener;
 }
 
 /** Remove every temporary file still being written (called on SIGINT/SIGTERM). */

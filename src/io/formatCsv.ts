@@ -13,8 +13,7 @@ const FORMULA_START = /^[=+\-@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/;
  * never altered, so a negative energy stays a number.
  */
 export function formatCsv(header: readonly string[], rows: ReadonlyArray<readonly CsvCell[]>): string {
-  const line = (cells: readonly CsvCell[]): string => cells.map(csvCell).join(',');
-  return [line(header), ...rows.map(line)].join('\n') + '\n';
+  return [csvRow(header), ...rows.map(csvRow)].join('\n') + '\n';
 }
 
 /** One escaped cell. */
@@ -24,4 +23,9 @@ export function csvCell(v: CsvCell): string {
   if (typeof v === 'boolean') return String(v);
   const text = FORMULA_START.test(v) ? `'${v}` : v;
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** One CSV row (without its line end) from cells escaped by `csvCell`. */
+export function csvRow(values: readonly CsvCell[]): string {
+  return values.map(csvCell).join(',');
 }

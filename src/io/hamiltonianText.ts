@@ -58,6 +58,7 @@ export function parsePauliOps(tokens: string[], file: string, line: number | und
 export async function parseHamiltonianText(lines: AsyncIterable<{ text: string; line: number }>, file: string): Promise<PauliSum> {
   let declared: number | undefined;
   const pending: Array<{ coeff: number; ops: Op[] }> = [];
+  const sums = new Map<string, number>();
   let maxIndex = -1;
   let any = false;
   for await (const { text, line } of lines) {
@@ -80,11 +81,25 @@ export async function parseHamiltonianText(lines: AsyncIterable<{ text: string; 
     const ops = parsePauliOps(tokens.slice(1), file, line, declared ?? MAX_QUBITS);
     for (const [, q] of ops) if (q > maxIndex) maxIndex = q;
     pending.push({ coeff, ops });
+    checkSumFinite(sums, coeff, ops, file, line);
   }
   if (!any) throw new BitspanError('file-empty', 'Hamiltonian file has no terms', 'write one term per line, e.g. 0.25 X0 X1', { file });
   const builder = new PauliSumBuilder(declared ?? maxIndex + 1);
   for (const t of pending) builder.add(t.coeff, t.ops);
   return builder.finish(declared !== undefined);
+}
+
+/**
+ * Add `coeff` to the running sum of its like terms and refuse the term whose addition overflows,
+ * so that combined coefficients never silently become ±Infinity.
+ */
+export function checkSumFinite(sums: Map<string, number>, coeff: number, ops: readonly Op[], file: string, line: number | undefined, what = 'this term'): void {
+  const key = ops.map(([p, q]) => `${p}${q}`).sort().join(' ');
+  const sum = (sums.get(key) ?? 0) + coeff;
+  sums.set(key, sum);
+  if (!Number.isFinite(sum)) {
+    throw new BitspanError('bad-hamiltonian', `${what} brings the combined coefficient of '${clip(key || 'constant')}' beyond the double range`, 'rescale the Hamiltonian; like terms are added together', { file, line });
+  }
 }
 
 function clip(s: string): string {

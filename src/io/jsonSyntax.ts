@@ -104,3 +104,80 @@ export function firstSyntaxError(text: string): number {
     return typeof pos === 'number' ? pos : 0;
   }
 }
+
+/**
+ * The 1-based line where the value at `path` (object keys and array indices) starts in valid JSON
+ * `text`, so errors about a document's structure can name a line too; undefined if the path is
+ * absent. For a repeated key the last one counts, as in JSON.parse.
+ */
+export function jsonPathLine(text: string, path: ReadonlyArray<string | number>): number | undefined {
+  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  let i = 0;
+  const ws = (): void => {
+    while (i < body.length && ' \t\r\n'.includes(body[i]!)) i++;
+  };
+  const skipString = (): void => {
+    i++;
+    while (i < body.length && body[i] !== '"') i += body[i] === '\\' ? 2 : 1;
+    i++;
+  };
+  const skipValue = (): void => {
+    ws();
+    const c = body[i];
+    if (c === '"') return skipString();
+    if (c !== '{' && c !== '[') {
+      while (i < body.length && !',]} \t\r\n'.includes(body[i]!)) i++;
+      return;
+    }
+    let depth = 0;
+    do {
+      const d = body[i];
+      if (d === '"') {
+        skipString();
+        continue;
+      }
+      if (d === '{' || d === '[') depth++;
+      else if (d === '}' || d === ']') depth--;
+      i++;
+    } while (depth > 0 && i < body.length);
+  };
+  for (const step of path) {
+    ws();
+    if (typeof step === 'number') {
+      if (body[i] !== '[') return undefined;
+      i++;
+      for (let k = 0; ; k++) {
+        ws();
+        if (body[i] === ']' || i >= body.length) return undefined;
+        if (k === step) break;
+        skipValue();
+        ws();
+        if (body[i] === ',') i++;
+      }
+    } else {
+      if (body[i] !== '{') return undefined;
+      i++;
+      let at = -1;
+      for (;;) {
+        ws();
+        if (body[i] !== '"') break;
+        const start = i;
+        skipString();
+        const key = JSON.parse(body.slice(start, i)) as string;
+        ws();
+        i++; // the colon
+        ws();
+        if (key === step) at = i;
+        skipValue();
+        ws();
+        if (body[i] === ',') i++;
+      }
+      if (at < 0) return undefined;
+      i = at;
+    }
+  }
+  ws();
+  let line = 1;
+  for (let k = 0; k < i && k < body.length; k++) if (body.charCodeAt(k) === 10) line++;
+  return line;
+}

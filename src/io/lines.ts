@@ -1,5 +1,5 @@
 import { createReadStream, promises as fsp } from 'node:fs';
-import { BitspanError } from '../errors.js';
+import { BitspanError, type BitspanErrorCode } from '../errors.js';
 
 /** Longest line any reader accepts; longer ones are refused rather than buffered without bound. */
 export const MAX_LINE_CHARS = 1 << 20;
@@ -27,9 +27,10 @@ export async function checkReadable(file: string, what: string): Promise<number>
 
 /**
  * Stream the lines of a UTF-8 text file with 1-based line numbers, without holding the file in
- * memory. Strips a leading BOM and the CR of CRLF line ends.
+ * memory. Strips a leading BOM and the CR of CRLF line ends. A line over MAX_LINE_CHARS, or one
+ * holding a lone CR, is refused with `code` (the error code of the format being read).
  */
-export async function* readLines(file: string): AsyncGenerator<{ text: string; line: number }> {
+export async function* readLines(file: string, code: BitspanErrorCode = 'bad-samples'): AsyncGenerator<{ text: string; line: number }> {
   const stream = createReadStream(file, { encoding: 'utf8', highWaterMark: 1 << 20 });
   let carry = '';
   let line = 0;
@@ -47,23 +48,31 @@ export async function* readLines(file: string): AsyncGenerator<{ text: string; l
         if (nl < 0) break;
         line++;
         const end = nl > start && data.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
-        yield { text: data.slice(start, end), line };
+        const text = data.slice(start, end);
+        if (text.includes('\r')) throw loneCr(file, line, code);
+        yield { text, line };
         start = nl + 1;
       }
       carry = data.slice(start);
       if (carry.length > MAX_LINE_CHARS) {
-        throw new BitspanError('bad-samples', `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a text file of the expected format', { file, line: line + 1 });
+        throw new BitspanError(code, `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a text file of the expected format', { file, line: line + 1 });
       }
     }
   } catch (e) {
     if (e instanceof BitspanError) throw e;
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new BitspanError('file-unreadable', `cannot read file (${code ?? String(e)})`, 'check the path and permissions', { file });
+    const errno = (e as NodeJS.ErrnoException).code;
+    throw new BitspanError('file-unreadable', `cannot read file (${errno ?? String(e)})`, 'check the path and permissions', { file });
   }
   if (carry.length > 0) {
     line++;
-    yield { text: carry.endsWith('\r') ? carry.slice(0, -1) : carry, line };
+    const text = carry.endsWith('\r') ? carry.slice(0, -1) : carry;
+    if (text.includes('\r')) throw loneCr(file, line, code);
+    yield { text, line };
   }
+}
+
+function loneCr(file: string, line: number, code: BitspanErrorCode): BitspanError {
+  return new BitspanError(code, 'line ends with a lone carriage return (CR) inside the line', 'save the file with LF or CRLF line ends', { file, line });
 }
 
 /** Strict non-negative decimal count: no hex, no Infinity, no empty string. */

@@ -46,11 +46,21 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     let table: ConfigTable | undefined;
     let shots = 0;
     const sink = {
-      add(words: Uint32Array, count: number): void {
+      add(words: Uint32Array, count: number, line: number): void {
         // Size the table from the file once the row length is known, so it rarely rehashes.
         table ??= new ConfigTable(parser.nWords, Math.min(1 << 24, Math.max(1 << 12, Math.ceil(bytes / (parser.qubits + 4)))));
-        table.add(words, 0, count);
+        try {
+          table.add(words, 0, count);
+        } catch (e) {
+          // The dedupe table doubles as it grows; refuse cleanly when the next doubling cannot be had.
+          if (e instanceof RangeError) throw tooManyConfigs(table.size, parser.qubits, file);
+          throw e;
+        }
         shots += count;
+        // Counts are non-negative, so a finite total keeps every per-configuration sum finite too.
+        if (!Number.isFinite(shots)) {
+          throw new BitspanError('bad-samples', 'counts add up beyond the double range (about 1.8e308)', 'check the count column', { file, line });
+        }
       },
     };
     const format = resolveFormat(file, opts.format ?? 'auto');
@@ -72,6 +82,15 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     groups.push({ file, rows, shots, table });
   }
   return { qubits: parser.qubits, nWords: parser.nWords, groups };
+}
+
+function tooManyConfigs(size: number, qubits: number, file: string): BitspanError {
+  return new BitspanError(
+    'too-large',
+    `cannot hold more than ${size} distinct ${qubits}-qubit configurations in memory`,
+    'split the run into smaller sets of dumps, or drop rare configurations before reading',
+    { file },
+  );
 }
 
 function resolveFormat(file: string, format: SampleFormat): Exclude<SampleFormat, 'auto'> {

@@ -41,7 +41,7 @@ export async function readSamplesCsv(file: string, parser: BitstringParser, sink
       }
       const words = parser.parse(cells[bitCol]!, file, line);
       const count = countCol >= 0 ? parseCount(cells[countCol]!, file, line) : 1;
-      sink.add(words, count);
+      sink.add(words, count, line);
       rows++;
     }
   } catch (e) {

@@ -27,6 +27,8 @@ export async function readSamplesCsvFast(file: string, parser: BitstringParser, 
     while (start < end && (buf[start] === 32 || buf[start] === 9)) start++;
     if (start === end) return;
     if (!headerDone) {
+      // Lone CR line ends (old Mac files): csv-parse detects the record delimiter, this path does not.
+      if (buf.subarray(start, end).indexOf(13) >= 0) throw new NeedsFullCsv();
       const names = buf.toString('utf8', start, end).split(',').map((c) => c.trim().toLowerCase());
       const find = (want: string): number => {
         const first = names.indexOf(want);
@@ -89,7 +91,7 @@ export async function readSamplesCsvFast(file: string, parser: BitstringParser, 
       }
       if (!ok) count = parseCount(buf.toString('utf8', cntStart, cntEnd), file, line);
     }
-    sink.add(words, count);
+    sink.add(words, count, line);
     rows++;
   };
   try {

@@ -34,7 +34,7 @@ export async function readSamplesJson(file: string, parser: BitstringParser, sin
   };
   const finishValue = (): void => {
     const count = parseCount(value, file, tokenLine);
-    sink.add(parser.parse(key.trim(), file, tokenLine), count);
+    sink.add(parser.parse(key.trim(), file, tokenLine), count, tokenLine);
     rows++;
   };
   try {

@@ -8,7 +8,7 @@ export async function readSamplesText(file: string, parser: BitstringParser, sin
   for await (const { text, line } of readLines(file)) {
     const t = text.trim();
     if (t.length === 0 || t.charCodeAt(0) === 35 /* # */) continue;
-    sink.add(parser.parse(t, file, line), 1);
+    sink.add(parser.parse(t, file, line), 1, line);
     rows++;
   }
   return rows;

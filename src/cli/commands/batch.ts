@@ -112,7 +112,9 @@ async function runEvery(io: CliIo, manifest: Manifest, output: string, procs: Jo
  */
 async function whileHandlingSignals<T>(procs: JobProcesses, body: () => Promise<T>): Promise<T> {
   const onSignal = (signal: NodeJS.Signals): void => {
-    procs.stop(signal);
+    // Job processes write nothing themselves (their reports come back over stdout and this process
+    // writes the files), so they can be stopped outright even if one is stuck.
+    procs.stop('SIGKILL');
     removePendingTemps();
     process.exit(signal === 'SIGINT' ? 130 : 143);
   };
