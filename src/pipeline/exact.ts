@@ -5,7 +5,7 @@ import { nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
 import { sectorFlipTest } from '../build/projectedHamiltonian.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
-import { groupByFlipMask, highestQubit, type PauliSum } from '../operators/pauliSum.js';
+import { groupByFlipMask, highestQubit, isComplexHamiltonian, type PauliSum } from '../operators/pauliSum.js';
 import { compileSector, describeSector, type Sector } from '../sectors/sector.js';
 import { enumerateSector, sectorDimension } from '../sectors/enumerateSector.js';
 import type { SubspaceReport } from '../sectors/selectSubspace.js';
@@ -38,7 +38,8 @@ export type ExactReport = Omit<SolveReport, 'command' | 'samples'> & { command: 
 export interface ExactOutcome {
   report: ExactReport;
   basis: Basis;
-  matrix: SparseMatrix;
+  /** The stored matrix (absent when the build chose matrix-free products). */
+  matrix?: SparseMatrix;
   hamiltonian: PauliSum;
   eigen: LanczosResult;
 }
@@ -108,7 +109,11 @@ export async function exact(opts: ExactOptions): Promise<ExactOutcome> {
   timings.enumerate = (t2 - t1) / 1000;
   const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
   const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
-  const { matrix, eigen, timings: pt } = projectAndSolve(hamiltonian, basis, sector, { eigs, tol, seed });
+  // Awaited: the one build-and-solve entry may run its build on worker threads.
+  const projection = await projectAndSolve(hamiltonian, basis, sector, { eigs, tol, seed });
+  const { eigen, timings: pt } = projection;
+  const matrix: SparseMatrix | undefined = projection.matrix;
+  const complex = isComplexHamiltonian(hamiltonian);
   timings.build = pt.build;
   timings.solve = pt.solve;
   timings.total = (performance.now() - t0) / 1000;
@@ -117,8 +122,8 @@ export async function exact(opts: ExactOptions): Promise<ExactOutcome> {
     command: 'exact',
     qubits,
     dimension: basis.dim,
-    nonzeros: nonzeros(matrix),
-    complex: matrix.complex,
+    nonzeros: matrix ? nonzeros(matrix) : ((projection as { nonzeros?: number }).nonzeros ?? 0),
+    complex,
     energies: Array.from(eigen.values),
     residuals: Array.from(eigen.residuals),
     converged: eigen.converged,
@@ -138,7 +143,7 @@ export async function exact(opts: ExactOptions): Promise<ExactOutcome> {
     },
     sector: sectorReport(sector, qubits),
     timings,
-    groundState: { top: topConfigurations(basis, eigen.vectors[0]!, matrix.complex, opts.top ?? 10, opts.qubit0) },
+    groundState: { top: topConfigurations(basis, eigen.vectors[0]!, complex, opts.top ?? 10, opts.qubit0) },
   };
   return { report, basis, matrix, hamiltonian, eigen };
 }

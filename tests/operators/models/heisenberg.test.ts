@@ -9,11 +9,11 @@ import { applyFullSpace, fullSpaceOperator } from '../../../src/sim/fullSpaceOpe
 import { lanczos } from '../../../src/solvers/lanczos.js';
 import { closeTo, denseFromPauliSum, hermitianEigenvalues } from '../../helpers.js';
 
-/** Lowest energy of h in a whole sector through the library's exact path. */
-function sectorGround(h: PauliSum, sector: Sector, eigs = 1): number[] {
+/** Lowest energies of h in a whole sector through the library's exact path. */
+async function sectorGround(h: PauliSum, sector: Sector, eigs = 1): Promise<number[]> {
   const e = enumerateSector(sector, h.qubits);
   const basis = makeBasis(h.qubits, e.nWords, e.states, e.count);
-  return Array.from(projectAndSolve(h, basis, sector, { eigs, tol: 1e-10 }).eigen.values);
+  return Array.from((await projectAndSolve(h, basis, sector, { eigs, tol: 1e-10 })).eigen.values);
 }
 
 const chain = (L: number, boundary: 'open' | 'periodic') => ({ kind: 'chain' as const, lx: L, ly: 1, boundary });
@@ -36,28 +36,28 @@ describe('heisenbergModel', () => {
     expect(spin.declaredQubits).toBe(true);
   });
 
-  it('heisenbergModel ring of 8 matches dense diagonalisation with ml-matrix, and E0 = −3.651093 (from memory)', () => {
+  it('heisenbergModel ring of 8 matches dense diagonalisation with ml-matrix, and E0 = −3.651093 (from memory)', async () => {
     const { hamiltonian } = heisenbergModel({ lattice: chain(8, 'periodic'), j: 1 });
     // Outside reference: ml-matrix eigenvalues of the Kronecker-product matrix (256 × 256).
     const dense = hermitianEigenvalues(denseFromPauliSum(hamiltonian, 8));
-    const [e0] = sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: 4 }] });
+    const [e0] = await sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: 4 }] });
     closeTo(e0!, dense[0]!, 1e-9, 'Sz = 0 ground energy vs dense');
     // Bethe-ansatz finite-size value for N = 8 (from memory), checked against the dense result above.
     closeTo(dense[0]!, -3.651093, 1e-6, 'published N = 8 ring');
   });
 
-  it('heisenbergModel J1–J2 ring at the Majumdar–Ghosh point has E0 = −3JN/8 (Majumdar & Ghosh 1969)', () => {
+  it('heisenbergModel J1–J2 ring at the Majumdar–Ghosh point has E0 = −3JN/8 (Majumdar & Ghosh 1969)', async () => {
     const N = 10;
     const { hamiltonian } = heisenbergModel({ lattice: chain(N, 'periodic'), j: 1, j2: 0.5 });
-    const [e0, e1] = sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: N / 2 }] }, 2);
+    const [e0, e1] = await sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: N / 2 }] }, 2);
     closeTo(e0!, (-3 * N) / 8, 1e-9, 'Majumdar–Ghosh energy');
     // The two dimer coverings are degenerate on an even ring.
     closeTo(e1!, (-3 * N) / 8, 1e-7, 'second dimer state');
   });
 
-  it('heisenbergModel 4×4 periodic square has E0 = −11.228483 (Schulz, Ziman & Poilblanc 1996, from memory)', () => {
+  it('heisenbergModel 4×4 periodic square has E0 = −11.228483 (Schulz, Ziman & Poilblanc 1996, from memory)', async () => {
     const { hamiltonian } = heisenbergModel({ lattice: { kind: 'square', lx: 4, ly: 4, boundary: 'periodic' }, j: 1 });
-    const [sz0] = sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: 8 }] });
+    const [sz0] = await sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: 8 }] });
     closeTo(sz0!, -11.228483, 1e-6, '4×4 ground energy');
     // Verified another way: Lanczos on the whole 2^16 space through the simulator's matrix-free
     // operator (no sector enumeration, no projected builder); the singlet ground state is global.
@@ -68,9 +68,9 @@ describe('heisenbergModel', () => {
     closeTo(full.values[0]!, sz0!, 1e-7, 'full-space Lanczos');
   });
 
-  it('heisenbergModel Ising limit (J = 0) gives the Néel energy −Jz·bonds/4 (hand-derived)', () => {
+  it('heisenbergModel Ising limit (J = 0) gives the Néel energy −Jz·bonds/4 (hand-derived)', async () => {
     const { hamiltonian, lattice } = heisenbergModel({ lattice: { kind: 'square', lx: 4, ly: 2, boundary: 'open' }, j: 0, jz: 2 });
-    const [e0] = sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: 4 }] });
+    const [e0] = await sectorGround(hamiltonian, { weights: [{ lo: 0, hi: -1, weight: 4 }] });
     closeTo(e0!, (-2 * lattice.nearest.length) / 4, 1e-10, 'Néel energy');
   });
 

@@ -59,10 +59,10 @@ function maxDiff(a: DenseComplex, b: DenseComplex): number {
   return d;
 }
 
-function sectorGround(h: PauliSum, sector: Sector): number {
+async function sectorGround(h: PauliSum, sector: Sector): Promise<number> {
   const e = enumerateSector(sector, h.qubits);
   const basis = makeBasis(h.qubits, e.nWords, e.states, e.count);
-  return projectAndSolve(h, basis, sector, { tol: 1e-11 }).eigen.values[0]!;
+  return (await projectAndSolve(h, basis, sector, { tol: 1e-11 })).eigen.values[0]!;
 }
 
 const filling = (L: number, up: number, down: number): Sector => ({ weights: [{ lo: 0, hi: L - 1, weight: up }, { lo: L, hi: 2 * L - 1, weight: down }] });
@@ -82,21 +82,21 @@ describe('hubbardModel', () => {
     }
   });
 
-  it('hubbardModel two-site ground energy is U/2 − sqrt((U/2)² + 4t²) at half filling (textbook)', () => {
+  it('hubbardModel two-site ground energy is U/2 − sqrt((U/2)² + 4t²) at half filling (textbook)', async () => {
     for (const [t, u] of [[1, 4], [0.5, 1], [1, 0.1], [2, 10]] as const) {
       const { hamiltonian } = hubbardModel({ lattice: chain(2, 'open'), t, u });
-      closeTo(sectorGround(hamiltonian, filling(2, 1, 1)), u / 2 - Math.sqrt((u / 2) ** 2 + 4 * t * t), 1e-10, `t=${t} U=${u}`);
+      closeTo(await sectorGround(hamiltonian, filling(2, 1, 1)), u / 2 - Math.sqrt((u / 2) ** 2 + 4 * t * t), 1e-10, `t=${t} U=${u}`);
     }
   });
 
-  it('hubbardModel at U = 0 fills the periodic tight-binding band −2t cos(2πk/L) (textbook), which needs the wrap-around sign', () => {
+  it('hubbardModel at U = 0 fills the periodic tight-binding band −2t cos(2πk/L) (textbook), which needs the wrap-around sign', async () => {
     // L = 6, three electrons per spin: k = 0, ±1 → −2t(1 + 2 cos(π/3)) = −4t per spin.
     const ring6 = hubbardModel({ lattice: chain(6, 'periodic'), t: 1, u: 0 }).hamiltonian;
-    closeTo(sectorGround(ring6, filling(6, 3, 3)), -8, 1e-10, 'L=6 N=3+3');
+    closeTo(await sectorGround(ring6, filling(6, 3, 3)), -8, 1e-10, 'L=6 N=3+3');
     // L = 4, two electrons per spin: k = 0 and one of ±1 → −2t per spin. A ring without the
     // Jordan–Wigner string on the wrap bond would instead give the antiperiodic band, −2√2 t per spin.
     const ring4 = hubbardModel({ lattice: chain(4, 'periodic'), t: 1, u: 0 }).hamiltonian;
-    closeTo(sectorGround(ring4, filling(4, 2, 2)), -4, 1e-10, 'L=4 N=2+2');
+    closeTo(await sectorGround(ring4, filling(4, 2, 2)), -4, 1e-10, 'L=4 N=2+2');
     const naive = new PauliSumBuilder(8);
     for (const off of [0, 4]) {
       for (const [i, k] of [[0, 1], [1, 2], [2, 3], [0, 3]]) {
@@ -104,10 +104,10 @@ describe('hubbardModel', () => {
         naive.add(-0.5, [['Y', off + i!], ['Y', off + k!]]);
       }
     }
-    closeTo(sectorGround(naive.finish(true), filling(4, 2, 2)), -4 * Math.SQRT2, 1e-10, 'string-less ring');
+    closeTo(await sectorGround(naive.finish(true), filling(4, 2, 2)), -4 * Math.SQRT2, 1e-10, 'string-less ring');
   });
 
-  it('hubbardModel ring of 4 at half filling matches ml-matrix on the Fock-space matrix', () => {
+  it('hubbardModel ring of 4 at half filling matches ml-matrix on the Fock-space matrix', async () => {
     const spec = chain(4, 'periodic');
     const { hamiltonian } = hubbardModel({ lattice: spec, t: 1, u: 4 });
     // The Fock matrix restricted to two electrons of each spin, diagonalised densely.
@@ -117,7 +117,7 @@ describe('hubbardModel', () => {
     const d = states.length;
     const sub: DenseComplex = { dim: d, re: new Float64Array(d * d), im: new Float64Array(d * d) };
     states.forEach((a, i) => states.forEach((b, k) => (sub.re[i * d + k] = fock.re[a * fock.dim + b]!)));
-    closeTo(sectorGround(hamiltonian, filling(4, 2, 2)), hermitianEigenvalues(sub)[0]!, 1e-9, 'half filling');
+    closeTo(await sectorGround(hamiltonian, filling(4, 2, 2)), hermitianEigenvalues(sub)[0]!, 1e-9, 'half filling');
   });
 
   it('hubbardNeel puts spin-up on even sites and spin-down on odd sites', () => {
