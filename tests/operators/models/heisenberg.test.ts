@@ -9,7 +9,7 @@ import { applyFullSpace, fullSpaceOperator } from '../../../src/sim/fullSpaceOpe
 import { lanczos } from '../../../src/solvers/lanczos.js';
 import { closeTo, denseFromPauliSum, hermitianEigenvalues } from '../../helpers.js';
 
-/** Lowest energy of h in a whole sector through the library's exact path. */
+/** Lowest energies of h in a whole sector through the library's exact path. */
 async function sectorGround(h: PauliSum, sector: Sector, eigs = 1): Promise<number[]> {
   const e = enumerateSector(sector, h.qubits);
   const basis = makeBasis(h.qubits, e.nWords, e.states, e.count);
