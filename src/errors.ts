@@ -16,6 +16,8 @@ export type BitspanErrorCode =
   | 'bad-integrals'
   | 'bad-matrices'
   | 'bad-manifest'
+  | 'bad-observables'
+  | 'bad-state'
   | 'output-unwritable'
   | 'interrupted'
   | 'internal';
