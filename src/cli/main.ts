@@ -1,10 +1,11 @@
 import { Command, CommanderError } from 'commander';
 import { BitspanError, exitStatusFor } from '../errors.js';
 import { solveCommand } from './commands/solve.js';
+import { sweepCommand } from './commands/sweep.js';
 import type { CliIo } from './io.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
-const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand];
+const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, sweepCommand];
 
 /**
  * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,
