@@ -80,18 +80,15 @@ export function stateObservables(basis: Basis, psi: Float64Array, complex: boole
   const out: StateObservables = { z, occupation: Array.from(occ) };
   if (pair) {
     // Z_i Z_j = (1 − 2n_i)(1 − 2n_j) = 1 − 2n_i − 2n_j + 4 n_i n_j.
-    out.zz = [];
+    const zz = Array.from({ length: qubits }, () => new Array<number>(qubits).fill(1));
     for (let i = 0; i < qubits; i++) {
-      const row: number[] = [];
-      for (let j = 0; j < qubits; j++) {
-        if (i === j) row.push(1);
-        else {
-          const nij = i < j ? pair[i * qubits + j]! : pair[j * qubits + i]!;
-          row.push(1 - 2 * occ[i]! - 2 * occ[j]! + 4 * nij);
-        }
+      for (let j = i + 1; j < qubits; j++) {
+        const v = 1 - 2 * occ[i]! - 2 * occ[j]! + 4 * pair[i * qubits + j]!;
+        zz[i]![j] = v;
+        zz[j]![i] = v;
       }
-      out.zz.push(row);
     }
+    out.zz = zz;
   }
   if (opts.pauli) out.pauli = opts.pauli.map((o) => ({ ops: o.ops, coeff: o.coeff, value: o.coeff * pauliExpectation(basis, psi, complex, o.x, o.z) / total, diagonal: isZero(o.x) }));
   return out;

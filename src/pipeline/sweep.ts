@@ -53,6 +53,7 @@ export interface SweepOptions {
   observables?: string;
   /** Per-qubit ⟨Z⟩ and correlations at every point. */
   observe?: boolean;
+  /** Which fit `extrapolation` reports (default `pt2`; both are in `extrapolations`). */
   extrapolate?: ExtrapolateAgainst;
   /** Called after each point (progress). */
   onPoint?: (point: SweepPoint, index: number, total: number) => void;
@@ -208,7 +209,9 @@ export async function sweep(opts: SweepOptions): Promise<{ report: SweepReport; 
       break;
   }
   timings.points = (performance.now() - t) / 1000;
-  const against = opts.extrapolate ?? 'variance';
+  // Default PT2: far from convergence E is not linear in the variance and that fit overshoots,
+  // while E against E_PT2 stays near-linear (common practice in selected CI).
+  const against = opts.extrapolate ?? 'pt2';
   const fits = {
     variance: fitAgainst(points, 'variance', analysis.reference),
     pt2: fitAgainst(points, 'pt2', analysis.reference),

@@ -46,7 +46,7 @@ export function sweepCommand(io: CliIo): Command {
   addExpandOptions(cmd, true);
   addEstimateOptions(cmd);
   cmd
-    .option('--extrapolate <against>', 'extrapolate E0 against the variance or the PT2 correction', oneOf('--extrapolate', ['variance', 'pt2'] as const), 'variance')
+    .option('--extrapolate <against>', 'report the extrapolation of E0 against the PT2 correction or the variance (both are computed)', oneOf('--extrapolate', ['pt2', 'variance'] as const), 'pt2')
     .option('--top <n>', 'most probable ground-state configurations reported per point', positiveInt('--top'), 10)
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
