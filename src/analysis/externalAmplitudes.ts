@@ -235,6 +235,9 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
   const G = plan.groups.count;
   const key = new Uint32Array(nWords);
   let slots = new Int32Array(1024);
+  let hashes = new Int32Array(1024);
+  const bloom = basisBloom(basis);
+  const bloomMask = bloom.length * 32 - 1;
   const start = offsets[b0]!;
   let w = start;
   for (let bucket = b0; bucket < b1; bucket++) {
@@ -244,6 +247,7 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
     let cap = 16;
     while (cap < 2 * (e - s)) cap *= 2;
     if (slots.length < cap) slots = new Int32Array(cap);
+    if (hashes.length < e - s) hashes = new Int32Array(cap);
     slots.fill(-1, 0, cap);
     const mask = cap - 1;
     const first = w;
@@ -254,7 +258,8 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
       const ro = ri * nWords;
       const go = (si - ri * G) * nWords;
       for (let k = 0; k < nWords; k++) key[k] = states[ro + k]! ^ flipMasks[go + k]!;
-      let slot = hashConfig(key, 0, nWords) & mask;
+      const h = hashConfig(key, 0, nWords);
+      let slot = h & mask;
       let found = -1;
       for (;;) {
         const j = slots[slot]!;
@@ -283,6 +288,7 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
           values[2 * w + 1] = values[2 * i + 1]!;
         } else values[w] = values[i]!;
         slots[slot] = w;
+        hashes[w - first] = h;
         w++;
       }
     }
@@ -299,19 +305,24 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
       const ro = r * nWords;
       const go = g * nWords;
       for (let k = 0; k < nWords; k++) key[k] = states[ro + k]! ^ flipMasks[go + k]!;
-      let slot = hashConfig(key, 0, nWords) & bMask;
+      const h = hashes[j - first]!;
+      const bit = (h >>> 5) & bloomMask;
+      let slot = h & bMask;
+      // Most targets are not in the basis: the small bitset answers that from cache.
       let inside = false;
-      for (;;) {
-        const idx = bSlots[slot]!;
-        if (idx === -1) break;
-        const base = idx * nWords;
-        let k = 0;
-        while (k < nWords && states[base + k] === key[k]) k++;
-        if (k === nWords) {
-          inside = true;
-          break;
+      if (((bloom[bit >>> 5]! >>> (bit & 31)) & 1) !== 0) {
+        for (;;) {
+          const idx = bSlots[slot]!;
+          if (idx === -1) break;
+          const base = idx * nWords;
+          let k = 0;
+          while (k < nWords && states[base + k] === key[k]) k++;
+          if (k === nWords) {
+            inside = true;
+            break;
+          }
+          slot = (slot + 1) & bMask;
         }
-        slot = (slot + 1) & bMask;
       }
       if (inside) continue;
       // H_aa from the source row's H_bb: the diagonal terms anticommuting with the flip change sign.
@@ -356,6 +367,22 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
   sums[2]! += singular;
   sums[3]! += outside;
   return w - start;
+}
+
+/**
+ * A one-hash Bloom bitset of the basis (about 16 bits a configuration, so it stays in cache): a
+ * clear bit proves a configuration is not in the basis.
+ */
+export function basisBloom(basis: Basis): Uint32Array {
+  let bits = 1024;
+  while (bits < 16 * basis.dim) bits *= 2;
+  const out = new Uint32Array(bits >>> 5);
+  const mask = bits - 1;
+  for (let i = 0; i < basis.dim; i++) {
+    const bit = (hashConfig(basis.states, i * basis.nWords, basis.nWords) >>> 5) & mask;
+    out[bit >>> 5]! |= 1 << (bit & 31);
+  }
+  return out;
 }
 
 /** Options of `externalAmplitudes`. */
