@@ -86,7 +86,9 @@ export function analysisLines(r: SolveReport): string[] {
   }
   if (r.batches) {
     const b = r.batches;
-    lines.push(`batches: ${b.count} × ${b.size} configurations (seed ${b.seed}): E0 mean ${b.mean.toFixed(10)}, spread σ ${sci(b.std)}, range [${b.min.toFixed(10)}, ${b.max.toFixed(10)}]`);
+    lines.push(
+      `batches: ${b.count} subspaces of ${Math.min(...b.dimensions)}–${Math.max(...b.dimensions)} configurations (seed ${b.seed}): E0 mean ${b.mean.toFixed(10)}, spread σ ${sci(b.std)}, range [${b.min.toFixed(10)}, ${b.max.toFixed(10)}], residuals ≤ ${Math.max(...b.residuals).toExponential(2)}`,
+    );
   }
   return lines;
 }
