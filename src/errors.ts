@@ -17,6 +17,8 @@ export type BitspanErrorCode =
   | 'bad-integrals'
   | 'bad-matrices'
   | 'bad-manifest'
+  | 'bad-observables'
+  | 'bad-state'
   | 'output-unwritable'
   | 'interrupted'
   | 'incomplete'

@@ -9,11 +9,12 @@ import { modelCommand } from './commands/model.js';
 import { simulateCommand } from './commands/simulate.js';
 import { exactCommand } from './commands/exact.js';
 import { demoCommand } from './commands/demo.js';
+import { sweepCommand } from './commands/sweep.js';
 import type { CliIo } from './io.js';
 import { closeThreadPools } from '../parallel/threadPool.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
-const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, modelCommand, simulateCommand, exactCommand, demoCommand, krylovCommand, batchCommand, collectCommand];
+const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, sweepCommand, modelCommand, simulateCommand, exactCommand, demoCommand, krylovCommand, batchCommand, collectCommand];
 
 /**
  * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,

@@ -1,5 +1,5 @@
-import { parse as parseVega, View } from 'vega';
-import { compile, type TopLevelSpec } from 'vega-lite';
+import type { TopLevelSpec } from 'vega-lite';
+import { renderSvg } from './plotRender.js';
 
 /** One named line of a chart. */
 export interface LineSeries {
@@ -51,16 +51,7 @@ export async function lineChartSvg(charts: LineChart | LineChart[]): Promise<str
     },
     ...(panels.length === 1 ? panels[0] : { vconcat: panels, spacing: 30 }),
   } as unknown as TopLevelSpec;
-  const view = new View(parseVega(compile(spec).spec), { renderer: 'none' });
-  const svg = await view.toSVG();
-  view.finalize();
-  // vega numbers clip paths with a process-wide counter; renumber them so the same chart always
-  // gives the same bytes.
-  const ids = new Map<string, number>();
-  return svg.replace(/\bclip(\d+)\b/g, (_, id: string) => {
-    if (!ids.has(id)) ids.set(id, ids.size + 1);
-    return `clip${ids.get(id)}`;
-  });
+  return renderSvg(spec);
 }
 
 function panelSpec(chart: LineChart): object {

@@ -20,6 +20,15 @@ export interface SampleGroup {
   shots: number;
   /** Distinct configurations of this group with their summed counts. */
   table: ConfigTable;
+  /** Rows in file order (with `keepOrder`): the table index and count of each row. */
+  order?: RowOrder;
+}
+
+/** The sequence of rows of one dump as indices into its table, for first-N-shots subsampling. */
+export interface RowOrder {
+  length: number;
+  index: Int32Array;
+  count: Float64Array;
 }
 
 /** Every dump of one run, sharing one register size. */
@@ -34,6 +43,8 @@ export interface ReadSamplesOptions {
   qubits?: number;
   qubit0?: Qubit0;
   format?: SampleFormat;
+  /** Also record the order of rows (4 + 8 bytes a row), for taking the first N shots later. */
+  keepOrder?: boolean;
 }
 
 /** Read and deduplicate one or more sample dumps, one group per file, streaming each file. */
@@ -45,12 +56,14 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     const bytes = await checkReadable(file, 'sample');
     let table: ConfigTable | undefined;
     let shots = 0;
+    const order: RowOrder | undefined = opts.keepOrder ? { length: 0, index: new Int32Array(1024), count: new Float64Array(1024) } : undefined;
     const sink = {
       add(words: Uint32Array, count: number, line: number): void {
         // Size the table from the file once the row length is known, so it rarely rehashes.
         table ??= new ConfigTable(parser.nWords, Math.min(1 << 24, Math.max(1 << 12, Math.ceil(bytes / (parser.qubits + 4)))));
+        let at: number;
         try {
-          table.add(words, 0, count);
+          at = table.add(words, 0, count);
         } catch (e) {
           // The dedupe table doubles as it grows; refuse cleanly when the next doubling cannot be had.
           if (e instanceof RangeError) throw tooManyConfigs(table.size, parser.qubits, file);
@@ -61,6 +74,7 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
         if (!Number.isFinite(shots)) {
           throw new BitspanError('bad-samples', 'counts add up beyond the double range (about 1.8e308)', 'check the count column', { file, line });
         }
+        if (order) appendRow(order, at, count);
       },
     };
     const format = resolveFormat(file, opts.format ?? 'auto');
@@ -79,7 +93,7 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     if (rows === 0 || !table) {
       throw new BitspanError('file-empty', 'sample file holds no samples', 'give at least one bitstring row', { file });
     }
-    groups.push({ file, rows, shots, table });
+    groups.push(order ? { file, rows, shots, table, order } : { file, rows, shots, table });
   }
   return { qubits: parser.qubits, nWords: parser.nWords, groups };
 }
@@ -91,6 +105,20 @@ function tooManyConfigs(size: number, qubits: number, file: string): BitspanErro
     'split the run into smaller sets of dumps, or drop rare configurations before reading',
     { file },
   );
+}
+
+function appendRow(o: RowOrder, index: number, count: number): void {
+  if (o.length === o.index.length) {
+    const i2 = new Int32Array(o.length * 2);
+    i2.set(o.index);
+    o.index = i2;
+    const c2 = new Float64Array(o.length * 2);
+    c2.set(o.count);
+    o.count = c2;
+  }
+  o.index[o.length] = index;
+  o.count[o.length] = count;
+  o.length++;
 }
 
 function resolveFormat(file: string, format: SampleFormat): Exclude<SampleFormat, 'auto'> {

@@ -1,11 +1,12 @@
 import { BitspanError } from '../errors.js';
-import type { Basis } from '../bits/basis.js';
+import { basisIndexOf, type Basis } from '../bits/basis.js';
 import { formatBitstring } from '../bits/packed.js';
 import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { MatvecTeam } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
+import { makeBasis } from '../bits/basis.js';
 import { csrApplyRows, nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
@@ -14,6 +15,13 @@ import { groupByFlipMask, highestQubit, type PauliSum } from '../operators/pauli
 import { compileSector, describeSector, type Sector } from '../sectors/sector.js';
 import { selectSubspace, type SubspaceReport } from '../sectors/selectSubspace.js';
 import { lanczos, LANCZOS_DEFAULTS, type LanczosResult, type LinearOperator } from '../solvers/lanczos.js';
+import type { SampleSet } from '../io/readSamples.js';
+import { readObservables } from '../io/observablesText.js';
+import { readStateCsv } from '../io/stateCsv.js';
+import { enumerateSector, sectorDimension } from '../sectors/enumerateSector.js';
+import { stateOnBasis, type StateOnConfigs } from '../analysis/stateOnBasis.js';
+import { analyzeLowest, type AnalysisOptions, type AnalysisReport, type ReferenceEnergy } from './analyze.js';
+import { expandSubspace, type ExpandOptions, type ExpansionReport } from './expand.js';
 
 /** Everything `solve` needs; file paths are read here, at the edge. */
 export interface SolveOptions {
@@ -35,10 +43,29 @@ export interface SolveOptions {
   matrixFree?: boolean;
   onBuildProgress?: SolverSettings['onBuildProgress'];
   onSolveProgress?: SolverSettings['onSolveProgress'];
+  /** Add the configurations H connects to the sampled subspace (N steps, within the sector) before solving. */
+  expand?: ExpandOptions;
+  /** A state CSV written by `--save-state`, used as the Lanczos start vector. */
+  startState?: string;
+  /** Error estimates, bounds, observables, diagnostics and batches of the lowest state. */
+  analysis?: SolveAnalysisOptions;
+}
+
+/** `SolveOptions.analysis`: the analysis options with file inputs still as paths. */
+export interface SolveAnalysisOptions extends Omit<AnalysisOptions, 'reference' | 'observables' | 'batches'> {
+  /** A known reference energy. */
+  reference?: number;
+  /** Diagonalise the whole sector for the reference (small systems). */
+  exact?: boolean;
+  /** Largest sector `exact` enumerates (default 2^20). */
+  exactMaxDim?: number;
+  /** Pauli strings to evaluate, one per line, in the Hamiltonian text format. */
+  observables?: string;
+  batches?: { count: number; size: number; seed?: number };
 }
 
 /** The JSON `solve --json` prints: every energy travels with its residual and its subspace. */
-export interface SolveReport {
+export interface SolveReport extends Partial<AnalysisReport> {
   command: 'solve';
   qubits: number;
   dimension: number;
@@ -60,6 +87,10 @@ export interface SolveReport {
   sector: SectorReport;
   timings: Record<string, number>;
   groundState: { top: Array<{ bitstring: string; probability: number }> };
+  /** Present with `expand`. */
+  expansion?: ExpansionReport;
+  /** Present with `startState`: how much of the saved state the subspace holds. */
+  startState?: { file: string; configurations: number; matched: number; used: boolean };
 }
 
 export interface SectorReport {
@@ -74,9 +105,17 @@ export interface SectorReport {
 export interface SolveOutcome {
   report: SolveReport;
   basis: Basis;
+  /** The stored matrix; undefined when products were matrix-free. */
   matrix?: SparseMatrix;
   hamiltonian: PauliSum;
   eigen: LanczosResult;
+}
+
+/** A single-thread matrix-free operator for H_S on `basis` (used when no matrix was stored). */
+export function matrixFreeOperator(hamiltonian: PauliSum, basis: Basis, sector: Sector): LinearOperator {
+  const groups = groupByFlipMask(hamiltonian, basis.nWords);
+  const test = sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords));
+  return { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, groups, test, 0, basis.dim, x, y)) };
 }
 
 /** Operator view of a stored sparse matrix. */
@@ -223,33 +262,94 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   const hamiltonian = await readHamiltonian(opts.hamiltonian);
   const t = lap('readHamiltonian', t0);
   const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format });
-  const tSamples = lap('readSamples', t);
+  lap('readSamples', t);
   checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
-  const threads = opts.threads ?? defaultThreads();
-  const { basis, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: threads > 1 });
-  lap('filter', tSamples);
-  const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
-  const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
-  const projection = await projectAndSolve(hamiltonian, basis, sector, {
+  const settings: SolverSettings = {
     eigs: opts.eigs,
-    tol,
-    seed,
-    threads,
+    tol: opts.tol ?? LANCZOS_DEFAULTS.tol,
+    seed: opts.seed ?? LANCZOS_DEFAULTS.seed,
+    threads: opts.threads ?? defaultThreads(),
     memoryBytes: opts.memoryBytes,
     matrixFree: opts.matrixFree,
     onBuildProgress: opts.onBuildProgress,
     onSolveProgress: opts.onSolveProgress,
-  });
-  const { matrix, eigen, plan } = projection;
-  timings.build = projection.timings.build;
-  timings.solve = projection.timings.solve;
+  };
+  const analysis = opts.analysis ? await resolveAnalysis(opts.analysis, hamiltonian, samples.qubits, sector, settings, timings) : undefined;
+  const start = opts.startState ? { file: opts.startState, state: await readStartState(opts.startState, samples.qubits, opts.qubit0) } : undefined;
+  const outcome = await solveSamples(
+    hamiltonian,
+    samples,
+    { hamiltonianFile: opts.hamiltonian, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start, analysis },
+    timings,
+  );
   timings.total = (performance.now() - t0) / 1000;
   // Run-to-run varying like the times, so it travels with them (process peak, in MiB).
   timings.peakRSSMB = process.resourceUsage().maxRSS / 1024;
+  return outcome;
+}
+
+/** Options of `solveSamples` and `solveBasis`: `solve`'s options with every file already read. */
+export interface SubspaceSolveOptions extends Omit<SolverSettings, 'start'> {
+  hamiltonianFile: string;
+  sector: Sector;
+  minCount?: number;
+  maxDim?: number;
+  top?: number;
+  qubit0?: Qubit0;
+  expand?: ExpandOptions;
+  /** A saved state to start Lanczos from (mapped onto the final basis). */
+  start?: { file: string; state: StateOnConfigs };
+  analysis?: AnalysisOptions;
+}
+
+/**
+ * Select the subspace from samples already read, expand it if asked, then `solveBasis`. The sweep
+ * calls this for every point, so each point is exactly a solve. `timings` receives the stages.
+ */
+export async function solveSamples(hamiltonian: PauliSum, samples: SampleSet, opts: SubspaceSolveOptions, timings: Record<string, number> = {}): Promise<SolveOutcome> {
+  let t = performance.now();
+  const threads = opts.threads ?? defaultThreads();
+  const { basis: sampled, report } = selectSubspace(samples, { sector: opts.sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: threads > 1 });
+  timings.filter = (performance.now() - t) / 1000;
+  let basis = sampled;
+  let expansion: ExpansionReport | undefined;
+  if (opts.expand && opts.expand.steps > 0) {
+    t = performance.now();
+    const lowestOf = async (b: Basis): Promise<{ energy: number; psi: Float64Array }> => {
+      const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1 });
+      return { energy: p.eigen.values[0]!, psi: p.eigen.vectors[0]! };
+    };
+    ({ basis, report: expansion } = await expandSubspace(hamiltonian, sampled, opts.sector, opts.expand, lowestOf));
+    timings.expand = (performance.now() - t) / 1000;
+  }
+  return solveBasis(hamiltonian, basis, report, opts, { samples, sampledBasis: sampled, expansion }, timings);
+}
+
+/**
+ * Build and solve on a given basis and make the report (plus the analysis asked for). `subspace` is
+ * the shot account of the sampled configurations the basis came from.
+ */
+export async function solveBasis(
+  hamiltonian: PauliSum,
+  basis: Basis,
+  subspace: SubspaceReport,
+  opts: SubspaceSolveOptions,
+  extras: { samples?: SampleSet; sampledBasis?: Basis; expansion?: ExpansionReport } = {},
+  timings: Record<string, number> = {},
+): Promise<SolveOutcome> {
+  const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
+  const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
+  const complex = groupByFlipMask(hamiltonian, basis.nWords).complex;
+  const start = opts.start ? stateOnBasis(opts.start.state, basis, complex) : null;
+  const threads = opts.threads ?? defaultThreads();
+  const projection = await projectAndSolve(hamiltonian, basis, opts.sector, { ...opts, tol, seed, threads, start: start ?? undefined });
+  const { matrix, eigen, plan } = projection;
+  timings.build = projection.timings.build;
+  timings.solve = projection.timings.solve;
   const result: SolveReport = {
     command: 'solve',
-    qubits: samples.qubits,
+    qubits: basis.qubits,
     dimension: basis.dim,
     nonzeros: projection.nonzeros,
     complex: projection.complex,
@@ -262,12 +362,102 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     matvecs: eigen.matvecs,
     tolerance: tol,
     seed,
-    hamiltonian: { file: opts.hamiltonian, terms: hamiltonian.terms.length, constant: hamiltonian.constant, qubits: hamiltonian.qubits },
-    samples: report,
-    sector: sectorReport(sector, samples.qubits, opts.minCount, opts.maxDim),
+    hamiltonian: { file: opts.hamiltonianFile, terms: hamiltonian.terms.length, constant: hamiltonian.constant, qubits: hamiltonian.qubits },
+    samples: subspace,
+    sector: sectorReport(opts.sector, basis.qubits, opts.minCount, opts.maxDim),
     threads,
     timings,
     groundState: { top: topConfigurations(basis, eigen.vectors[0]!, projection.complex, opts.top ?? 10, opts.qubit0) },
   };
+  if (extras.expansion) result.expansion = extras.expansion;
+  if (opts.start) {
+    const matched = countMatched(opts.start.state, basis);
+    result.startState = { file: opts.start.file, configurations: opts.start.state.count, matched, used: start !== null };
+  }
+  if (opts.analysis) {
+    const solveOn = async (b: Basis): Promise<{ energy: number; residual: number }> => {
+      const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1, tol, seed, threads });
+      return { energy: p.eigen.values[0]!, residual: p.eigen.residuals[0]! };
+    };
+    const operator = matrix ? matrixOperator(matrix) : matrixFreeOperator(hamiltonian, basis, opts.sector);
+    const { keys, timings: at } = await analyzeLowest(
+      { hamiltonian, basis, sector: opts.sector, eigen, operator, sampledBasis: extras.sampledBasis, samples: extras.samples, solveOn },
+      opts.analysis,
+    );
+    Object.assign(result, keys);
+    Object.assign(timings, at);
+  }
   return { report: result, basis, matrix, hamiltonian, eigen };
+}
+
+/**
+ * The exact lowest energy of H in the whole sector (enumerated, at most `maxDim` configurations),
+ * solved by the same build-and-solve entry.
+ */
+export async function exactReference(hamiltonian: PauliSum, qubits: number, sector: Sector, maxDim: number, settings: SolverSettings = {}): Promise<ReferenceEnergy> {
+  const dim = sectorDimension(sector, qubits);
+  if (dim > maxDim) {
+    throw new BitspanError('too-large', `the whole sector has ${dim} configurations, more than --exact-max-dim ${maxDim}`, 'give --reference E instead, or raise --exact-max-dim');
+  }
+  const e = enumerateSector(sector, qubits);
+  const threads = settings.threads ?? defaultThreads();
+  const basis = makeBasis(qubits, e.nWords, e.states, e.count, undefined, threads > 1);
+  const p = await projectAndSolve(hamiltonian, basis, sector, { ...settings, eigs: 1, threads });
+  return { energy: p.eigen.values[0]!, source: 'exact', dimension: basis.dim };
+}
+
+/** Default cap on the sector size `exact` diagonalises. */
+export const EXACT_MAX_DIM = 1 << 20;
+
+/** Turn `SolveAnalysisOptions` (paths, flags) into `AnalysisOptions` (parsed, computed), timing the exact reference. */
+export async function resolveAnalysis(
+  a: SolveAnalysisOptions,
+  hamiltonian: PauliSum,
+  qubits: number,
+  sector: Sector,
+  settings: SolverSettings,
+  timings: Record<string, number> = {},
+): Promise<AnalysisOptions> {
+  const { reference, exact, exactMaxDim, observables, batches, ...rest } = a;
+  const out: AnalysisOptions = { ...rest };
+  if (observables) {
+    const read = await readObservables(observables);
+    for (const o of read.observables) {
+      const top = highestMaskBit(o.x, o.z);
+      if (top >= qubits) {
+        throw new BitspanError('qubit-mismatch', `observable '${o.ops}' acts on qubit ${top} but the samples have ${qubits} qubits`, 'qubit indices are 0-based', { file: observables, line: o.line });
+      }
+    }
+    out.observables = read.observables;
+  }
+  if (batches) out.batches = { count: batches.count, size: batches.size, seed: batches.seed ?? settings.seed ?? LANCZOS_DEFAULTS.seed };
+  if (exact) {
+    const t = performance.now();
+    out.reference = await exactReference(hamiltonian, qubits, sector, exactMaxDim ?? EXACT_MAX_DIM, settings);
+    timings.exact = (performance.now() - t) / 1000;
+  } else if (reference !== undefined) out.reference = { energy: reference, source: 'given' };
+  return out;
+}
+
+/** Read a saved state for a register of `qubits` qubits (`bad-state` if the sizes differ). */
+export async function readStartState(file: string, qubits: number, qubit0?: Qubit0): Promise<StateOnConfigs> {
+  const state = await readStateCsv(file, { qubit0 });
+  if (state.qubits !== qubits) {
+    throw new BitspanError('bad-state', `saved state has ${state.qubits} qubits but the samples have ${qubits}`, 'give a state saved from the same register', { file });
+  }
+  return state;
+}
+
+function countMatched(state: StateOnConfigs, basis: Basis): number {
+  let n = 0;
+  for (let i = 0; i < state.count; i++) if (basisIndexOf(basis, state.states, i * state.nWords) >= 0) n++;
+  return n;
+}
+
+function highestMaskBit(x: Uint32Array, z: Uint32Array): number {
+  for (let k = x.length - 1; k >= 0; k--) {
+    const m = (x[k]! | z[k]!) >>> 0;
+    if (m !== 0) return k * 32 + 31 - Math.clz32(m);
+  }
+  return -1;
 }

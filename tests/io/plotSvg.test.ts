@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { lineChartSvg } from '../../src/io/plotSvg.js';
-import { svgToPng } from '../../src/io/svgToPng.js';
+import { svgToPng } from '../../src/io/plotRender.js';
 
 describe('lineChartSvg', () => {
   it('lineChartSvg draws labelled axes, the series legend and highlights, deterministically', async () => {

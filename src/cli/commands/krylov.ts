@@ -6,7 +6,7 @@ import { writeFileAtomic } from '../../io/atomicWrite.js';
 import type { KrylovSource } from '../../io/krylovMatrices.js';
 import { lineChartSvg } from '../../io/plotSvg.js';
 import { scanCsv } from '../../io/scanCsv.js';
-import { svgToPng } from '../../io/svgToPng.js';
+import { svgToPng } from '../../io/plotRender.js';
 import { thresholdScanChart } from '../../io/thresholdScanChart.js';
 import { krylov } from '../../pipeline/krylov.js';
 import type { CliIo } from '../io.js';

@@ -1,13 +1,19 @@
 import { Command } from 'commander';
+import { BitspanError } from '../../errors.js';
 import { writeFileAtomic } from '../../io/atomicWrite.js';
+import { renderPlot } from '../../io/plotRender.js';
+import { formatStateCsv } from '../../io/stateCsv.js';
+import { stateObservables } from '../../analysis/observables.js';
+import { zProfilePlot } from '../../analysis/plots/zProfilePlot.js';
 import { solve } from '../../pipeline/solve.js';
 import type { CliIo } from '../io.js';
 import { positiveInt } from '../parse.js';
+import { addEstimateOptions, addExpandOptions, checkEstimateFlags, expandFromFlags, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
 import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
 import { solveSummary } from '../summary.js';
 import { progressFor } from '../progress.js';
 
-interface SolveFlags extends SampleFlags, SolverFlags {
+interface SolveFlags extends SampleFlags, SolverFlags, ExpandFlags, EstimateFlags {
   hamiltonian: string;
   samples: string[];
   eigs: number;
@@ -16,6 +22,12 @@ interface SolveFlags extends SampleFlags, SolverFlags {
   json?: boolean;
   out?: string;
   top: number;
+  estimate?: boolean;
+  saveState?: string;
+  startState?: string;
+  batches?: number;
+  batchSize?: number;
+  plot?: string;
 }
 
 /** `bitspan solve`: the lowest energies of the Hamiltonian projected on the sampled configurations. */
@@ -29,9 +41,24 @@ export function solveCommand(io: CliIo): Command {
     .option('--top <n>', 'most probable ground-state configurations to report', positiveInt('--top'), 10)
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
+    .option('--estimate', 'energy variance, PT2 correction, bounds and sampling diagnostics of the lowest state');
+  addExpandOptions(cmd, true);
+  addEstimateOptions(cmd);
+  cmd
+    .option('--batches <k>', 'solve K resampled batches of configurations and report the energy spread', positiveInt('--batches'))
+    .option('--batch-size <d>', 'configurations per batch, drawn by sampled frequency without replacement', positiveInt('--batch-size'))
+    .option('--save-state <file>', 'write the lowest state as CSV (bitstring,re,im,probability)')
+    .option('--start-state <file>', 'start Lanczos from a state saved with --save-state')
+    .option('--plot <file>', 'plot the per-qubit <Z> profile of the lowest state (.svg or .png)')
     .action(async (f: SolveFlags) => {
+      checkEstimateFlags(f);
+      if ((f.batches === undefined) !== (f.batchSize === undefined)) {
+        throw new BitspanError('bad-argument', '--batches and --batch-size go together', 'e.g. --batches 10 --batch-size 500');
+      }
+      const plotFormat = f.plot ? plotFormatOf(f.plot) : undefined;
+      const wantsAnalysis = f.estimate || f.gap !== undefined || f.reference !== undefined || f.exact || f.observables || f.observe || f.batches !== undefined;
       const progress = progressFor(io, Boolean(f.json));
-      const { report } = await solve({
+      const { report, basis, eigen } = await solve({
         hamiltonian: f.hamiltonian,
         samples: f.samples,
         sector: sectorFromFlags(f),
@@ -49,10 +76,40 @@ export function solveCommand(io: CliIo): Command {
         matrixFree: f.matrixFree,
         onBuildProgress: (d, t) => progress.build(d, t),
         onSolveProgress: (i) => progress.solve(i),
+        expand: expandFromFlags(f),
+        startState: f.startState,
+        analysis: wantsAnalysis
+          ? {
+              // --gap only makes sense with the variance, so it implies --estimate.
+              estimate: Boolean(f.estimate) || f.gap !== undefined,
+              sampling: Boolean(f.estimate),
+              gap: f.gap,
+              reference: f.reference,
+              exact: f.exact,
+              exactMaxDim: f.exactMaxDim,
+              observables: f.observables,
+              observe: f.observe,
+              batches: f.batches !== undefined ? { count: f.batches, size: f.batchSize!, seed: f.seed } : undefined,
+            }
+          : undefined,
       }).finally(() => progress.stop());
       const json = JSON.stringify(report, null, 2) + '\n';
+      // Render everything before writing anything, so a failure leaves no partial set of outputs.
+      const plot = f.plot
+        ? await renderPlot(zProfilePlot(`⟨Z⟩ per qubit, lowest state of the ${report.dimension}-configuration subspace`, report.observables?.z ?? stateObservables(basis, eigen.vectors[0]!, report.complex, { correlations: false }).z), plotFormat!)
+        : undefined;
       if (f.out) await writeFileAtomic(f.out, json);
+      if (f.saveState) await writeFileAtomic(f.saveState, formatStateCsv(basis, eigen.vectors[0]!, report.complex, f.qubit0));
+      if (f.plot && plot !== undefined) await writeFileAtomic(f.plot, plot);
       io.stdout(f.json ? json : solveSummary(report));
     });
   return cmd;
+}
+
+/** Plot format from a file name: `.svg` or `.png`. */
+export function plotFormatOf(file: string): 'svg' | 'png' {
+  const lower = file.toLowerCase();
+  if (lower.endsWith('.svg')) return 'svg';
+  if (lower.endsWith('.png')) return 'png';
+  throw new BitspanError('bad-argument', `--plot '${file}' does not end in .svg or .png`, 'name the plot file plot.svg or plot.png');
 }
