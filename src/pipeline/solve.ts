@@ -4,16 +4,35 @@ import { formatBitstring } from '../bits/packed.js';
 import { buildProjectedHamiltonian } from '../build/projectedHamiltonian.js';
 import { csrApplyRows, nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
+import { readFcidump, type Fcidump } from '../io/fcidump.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
 import { readSamples, type SampleFormat } from '../io/readSamples.js';
+import { countNonzeroIntegrals } from '../operators/integrals.js';
 import { groupByFlipMask, highestQubit, type PauliSum } from '../operators/pauliSum.js';
+import { electronSector, electronsFromHeader } from '../sectors/electronSector.js';
 import { compileSector, describeSector, type Sector } from '../sectors/sector.js';
-import { selectSubspace, type SubspaceReport } from '../sectors/selectSubspace.js';
+import type { SubspaceReport } from '../sectors/selectSubspace.js';
 import { lanczos, LANCZOS_DEFAULTS, type LanczosResult, type LinearOperator } from '../solvers/lanczos.js';
+import { DEFAULT_MEMORY_BUDGET, projectDeterminants, type DeterminantStorage } from './projectDeterminants.js';
+import { solveSubspace, type ProductSpaceReport, type RepairReport } from './solveSubspace.js';
 
 /** Everything `solve` needs; file paths are read here, at the edge. */
 export interface SolveOptions {
-  hamiltonian: string;
+  /** Pauli-sum Hamiltonian file; exactly one of `hamiltonian` and `integrals` is given. */
+  hamiltonian?: string;
+  /** FCIDUMP file: the Hamiltonian as molecular integrals, solved in the determinant basis. */
+  integrals?: string;
+  /** Spin-up and spin-down electron counts for `integrals` (default: NELEC and MS2 of the header). */
+  electrons?: [number, number];
+  /** Repair off-sector samples instead of dropping them, for up to `repairRounds` rounds. */
+  repair?: boolean;
+  repairRounds?: number;
+  /** Close the determinant subspace under spin-up × spin-down combination (`integrals` only). */
+  productSpace?: boolean;
+  /** Bytes the determinant path may use for its matrix and vectors. */
+  memoryBudget?: number;
+  /** Progress lines (e.g. the product-space dimension before building). */
+  log?: (line: string) => void;
   samples: string[];
   sector?: Sector;
   minCount?: number;
@@ -47,6 +66,24 @@ export interface SolveReport {
   sector: SectorReport;
   timings: Record<string, number>;
   groundState: { top: Array<{ bitstring: string; probability: number }> };
+  /** Present with `integrals`: what the FCIDUMP held and how H was stored. */
+  integrals?: IntegralsReport;
+  /** Present with `repair`: per round, shots recovered and the energy. */
+  repair?: RepairReport;
+  /** Present with `productSpace`. */
+  productSpace?: ProductSpaceReport;
+}
+
+export interface IntegralsReport {
+  file: string;
+  orbitals: number;
+  electrons: [number, number];
+  nelec: number | null;
+  ms2: number;
+  isym: number;
+  orbsym: number[];
+  core: number;
+  storage: DeterminantStorage;
 }
 
 export interface SectorReport {
@@ -61,9 +98,26 @@ export interface SectorReport {
 export interface SolveOutcome {
   report: SolveReport;
   basis: Basis;
-  matrix: SparseMatrix;
-  hamiltonian: PauliSum;
+  /** The stored projected matrix; absent when the determinant path applied H matrix-free. */
+  matrix: SparseMatrix | undefined;
+  /** The operator the eigenpairs belong to. */
+  operator: LinearOperator;
+  /** The Pauli Hamiltonian (qubit path) or the FCIDUMP (determinant path). */
+  hamiltonian: PauliSum | undefined;
+  integrals: Fcidump | undefined;
   eigen: LanczosResult;
+}
+
+/** The Hamiltonian a run works with: a Pauli sum or molecular integrals. */
+export type LoadedOperator = { kind: 'pauli'; file: string; sum: PauliSum } | { kind: 'integrals'; file: string; dump: Fcidump };
+
+/** Read the Hamiltonian named by the options; throws `bad-argument` unless exactly one is given. */
+export async function loadOperator(opts: Pick<SolveOptions, 'hamiltonian' | 'integrals'>): Promise<LoadedOperator> {
+  if ((opts.hamiltonian === undefined) === (opts.integrals === undefined)) {
+    throw new BitspanError('bad-argument', opts.hamiltonian ? 'both --hamiltonian and --integrals given' : 'no Hamiltonian given', 'give a Pauli sum with --hamiltonian FILE or molecular integrals with --integrals FILE.fcidump');
+  }
+  if (opts.integrals !== undefined) return { kind: 'integrals', file: opts.integrals, dump: await readFcidump(opts.integrals) };
+  return { kind: 'pauli', file: opts.hamiltonian!, sum: await readHamiltonian(opts.hamiltonian!) };
 }
 
 /** Operator view of a stored sparse matrix. */
@@ -155,7 +209,7 @@ export function projectAndSolve(hamiltonian: PauliSum, basis: Basis, sector: Sec
   return { matrix, eigen, timings: { build: (t1 - t0) / 1000, solve: (t2 - t1) / 1000 } };
 }
 
-/** Read the Hamiltonian and dumps, select the subspace, build H_S and find its lowest eigenpairs. */
+/** Read the Hamiltonian and dumps, select (or repair) the subspace, build H_S and find its lowest eigenpairs. */
 export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   const t0 = performance.now();
   const timings: Record<string, number> = {};
@@ -164,26 +218,58 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     timings[name] = (now - since) / 1000;
     return now;
   };
-  const hamiltonian = await readHamiltonian(opts.hamiltonian);
+  const operator = await loadOperator(opts);
   const t = lap('readHamiltonian', t0);
   const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format });
-  const tSamples = lap('readSamples', t);
-  checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
-  const sector = opts.sector ?? { weights: [] };
-  const { basis, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim });
-  lap('filter', tSamples);
+  lap('readSamples', t);
+  let sector = opts.sector ?? { weights: [] };
+  let electrons: [number, number] | undefined;
+  if (operator.kind === 'pauli') {
+    checkRegister(operator.sum, operator.file, samples.qubits, opts.samples[0]!);
+    if (opts.productSpace) throw new BitspanError('bad-argument', '--product-space needs --integrals', 'the spin-up × spin-down closure is defined for determinants of molecular orbitals');
+  } else {
+    const m = operator.dump.integrals.orbitals;
+    if (samples.qubits !== 2 * m) {
+      throw new BitspanError('qubit-mismatch', `the integrals have ${m} orbitals (${2 * m} qubits) but the samples (${opts.samples[0]}) have ${samples.qubits} qubits`, 'spin-up orbital p is qubit p−1 and spin-down orbital p is qubit M+p−1: samples need 2·NORB qubits', { file: operator.file });
+    }
+    electrons = opts.electrons ?? electronsFromHeader(operator.dump.electrons, operator.dump.ms2, operator.file);
+    const spins = electronSector(m, electrons[0], electrons[1]);
+    sector = { weights: [...spins.weights, ...sector.weights], parity: sector.parity };
+  }
   const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
   const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
-  const { matrix, eigen, timings: pt } = projectAndSolve(hamiltonian, basis, sector, { eigs: opts.eigs, tol, seed });
-  timings.build = pt.build;
-  timings.solve = pt.solve;
+  const settings = { eigs: opts.eigs, tol, seed };
+  const memoryBudget = opts.memoryBudget ?? DEFAULT_MEMORY_BUDGET;
+  const run = solveSubspace(
+    samples,
+    {
+      sector,
+      minCount: opts.minCount,
+      maxDim: opts.maxDim,
+      repair: opts.repair ? { rounds: opts.repairRounds ?? 3, seed, tol } : undefined,
+      productSpace: opts.productSpace && operator.kind === 'integrals' ? { orbitals: operator.dump.integrals.orbitals, memoryBudget } : undefined,
+      log: opts.log,
+    },
+    (basis) => {
+      if (operator.kind === 'pauli') {
+        const p = projectAndSolve(operator.sum, basis, sector, settings);
+        return { ...p, operator: matrixOperator(p.matrix), nonzeros: nonzeros(p.matrix), complex: p.matrix.complex, storage: undefined };
+      }
+      return { ...projectDeterminants(operator.dump.integrals, basis, { ...settings, memoryBudget }), complex: false };
+    },
+  );
+  const { basis, projection, report } = run;
+  const { eigen } = projection;
+  timings.filter = run.timings.filter;
+  timings.build = run.timings.build;
+  timings.solve = run.timings.solve;
   timings.total = (performance.now() - t0) / 1000;
   const result: SolveReport = {
     command: 'solve',
     qubits: samples.qubits,
     dimension: basis.dim,
-    nonzeros: nonzeros(matrix),
-    complex: matrix.complex,
+    nonzeros: projection.nonzeros,
+    complex: projection.complex,
     energies: Array.from(eigen.values),
     residuals: Array.from(eigen.residuals),
     converged: eigen.converged,
@@ -191,11 +277,28 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     matvecs: eigen.matvecs,
     tolerance: tol,
     seed,
-    hamiltonian: { file: opts.hamiltonian, terms: hamiltonian.terms.length, constant: hamiltonian.constant, qubits: hamiltonian.qubits },
+    hamiltonian:
+      operator.kind === 'pauli'
+        ? { file: operator.file, terms: operator.sum.terms.length, constant: operator.sum.constant, qubits: operator.sum.qubits }
+        : { file: operator.file, terms: countNonzeroIntegrals(operator.dump.integrals), constant: operator.dump.integrals.core, qubits: 2 * operator.dump.integrals.orbitals },
     samples: report,
     sector: sectorReport(sector, samples.qubits, opts.minCount, opts.maxDim),
     timings,
-    groundState: { top: topConfigurations(basis, eigen.vectors[0]!, matrix.complex, opts.top ?? 10, opts.qubit0) },
+    groundState: { top: topConfigurations(basis, eigen.vectors[0]!, projection.complex, opts.top ?? 10, opts.qubit0) },
   };
-  return { report: result, basis, matrix, hamiltonian, eigen };
+  if (operator.kind === 'integrals') {
+    const d = operator.dump;
+    result.integrals = { file: d.file, orbitals: d.integrals.orbitals, electrons: electrons!, nelec: d.electrons ?? null, ms2: d.ms2, isym: d.isym, orbsym: d.orbsym, core: d.integrals.core, storage: projection.storage! };
+  }
+  if (run.repair) result.repair = run.repair;
+  if (run.productSpace) result.productSpace = run.productSpace;
+  return {
+    report: result,
+    basis,
+    matrix: projection.matrix,
+    operator: projection.operator,
+    hamiltonian: operator.kind === 'pauli' ? operator.sum : undefined,
+    integrals: operator.kind === 'integrals' ? operator.dump : undefined,
+    eigen,
+  };
 }
