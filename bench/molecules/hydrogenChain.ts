@@ -151,7 +151,7 @@ export function hydrogenChain(atoms: number, r: number): HydrogenChain {
     for (let q = 0; q <= p; q++) {
       let v = 0;
       for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) v += c.get(i, p) * c.get(j, q) * h.get(i, j);
-      setOneElectron(ints, p, q, v);
+      setOneElectron(ints, p, q, Math.abs(v) < 1e-12 ? 0 : v);
     }
   }
   // Four quarter transformations, O(n^5).
@@ -168,7 +168,9 @@ export function hydrogenChain(atoms: number, r: number): HydrogenChain {
   }
   for (let p = 0; p < n; p++) for (let q = 0; q < n; q++) for (let r2 = 0; r2 < n; r2++) for (let u = 0; u < n; u++) {
     if (q > p || u > r2 || r2 * n + u > p * n + q) continue;
-    setTwoElectron(ints, p, q, r2, u, t[((p * n + q) * n + r2) * n + u]!);
+    const v = t[((p * n + q) * n + r2) * n + u]!;
+    // Symmetry-forbidden integrals come out at rounding level; write them as exact zeros.
+    setTwoElectron(ints, p, q, r2, u, Math.abs(v) < 1e-12 ? 0 : v);
   }
   return { integrals: ints, hartreeFock: energy + nuclear, electrons: atoms };
 }

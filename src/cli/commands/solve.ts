@@ -1,4 +1,5 @@
 import { Command } from 'commander';
+import { BitspanError } from '../../errors.js';
 import { writeFileAtomic } from '../../io/atomicWrite.js';
 import { solve } from '../../pipeline/solve.js';
 import type { CliIo } from '../io.js';
@@ -42,6 +43,7 @@ export function solveCommand(io: CliIo): Command {
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
     .action(async (f: SolveFlags) => {
+      if (f.repairRounds !== undefined && !f.repair) throw new BitspanError('bad-argument', '--repair-rounds without --repair', 'add --repair, or drop --repair-rounds');
       const { report } = await solve({
         hamiltonian: f.hamiltonian,
         integrals: f.integrals,
