@@ -135,7 +135,8 @@ function rowEntries(ctx: DeterminantContext, r: number, sink: RowSink): void {
   const diagStride = m + 1;
   const ia = split.rowAlpha[r]!;
   const ib = split.rowBeta[r]!;
-  sink.add(r, determinantDiagonal(ctx, r));
+  const diagonal = determinantDiagonal(ctx, r);
+  if (diagonal !== 0) sink.add(r, diagonal);
 
   // Spin-up singles: the same-spin part is stored; add the Coulomb term with the spin-down electrons.
   for (let e = A.singleStart[ia]!; e < A.singleStart[ia + 1]!; e++) {
