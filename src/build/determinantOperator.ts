@@ -1,12 +1,12 @@
 import type { LinearOperator } from '../solvers/lanczos.js';
-import { forEachRow, type DeterminantContext, type RowSink } from './determinantHamiltonian.js';
+import { forEachRow, RowSink, type DeterminantContext } from './determinantHamiltonian.js';
 
 /**
  * y[r] = Σ_c H[r][c] x[c] for rows r0..r1, regenerating the Slater–Condon elements instead of
  * storing them: memory stays at the prepared string connections when the stored matrix would not fit.
  */
 export function applyDeterminantRows(ctx: DeterminantContext, x: Float64Array, y: Float64Array, r0: number, r1: number): void {
-  const sink = new DotSink(x);
+  const sink = RowSink.dot(x);
   forEachRow(ctx, r0, r1, sink, (r) => {
     y[r] = sink.sum;
     sink.sum = 0;
@@ -16,12 +16,4 @@ export function applyDeterminantRows(ctx: DeterminantContext, x: Float64Array, y
 /** The matrix-free determinant-basis Hamiltonian as an operator for Lanczos. */
 export function determinantOperator(ctx: DeterminantContext): LinearOperator {
   return { dim: ctx.dim, complex: false, apply: (x, y) => applyDeterminantRows(ctx, x, y, 0, ctx.dim) };
-}
-
-class DotSink implements RowSink {
-  sum = 0;
-  constructor(private readonly x: Float64Array) {}
-  add(col: number, value: number): void {
-    this.sum += value * this.x[col]!;
-  }
 }

@@ -59,11 +59,12 @@ export function stringConnections(strings: SpinStrings, ints: Integrals): String
   const singleExc = new Int32Array(ns);
   const singleSign = new Float64Array(ns);
   const singlePartial = new Float64Array(ns);
-  const xor = new Uint32Array(strings.nWords);
+  const removed = new Int32Array(2);
+  const added = new Int32Array(2);
   for (let s = 0; s < count; s++) {
     for (let e = singles.start[s]!; e < singles.start[s + 1]!; e++) {
       const t = singles.target[e]!;
-      const { removed, added } = differing(strings, s, t, xor);
+      differing(strings, s, t, removed, added);
       const i = removed[0]!;
       const a = added[0]!;
       singleExc[e] = a * m + i;
@@ -83,9 +84,11 @@ export function stringConnections(strings: SpinStrings, ints: Integrals): String
   const values = new Float64Array(doubles.target.length);
   for (let s = 0; s < count; s++) {
     for (let e = doubles.start[s]!; e < doubles.start[s + 1]!; e++) {
-      const { removed, added } = differing(strings, s, doubles.target[e]!, xor);
-      const [i, j] = removed as [number, number];
-      const [a, b] = added as [number, number];
+      differing(strings, s, doubles.target[e]!, removed, added);
+      const i = removed[0]!;
+      const j = removed[1]!;
+      const a = added[0]!;
+      const b = added[1]!;
       // a†_a a_i a†_b a_j: apply j → b first, then i → a on the result.
       let parity = between(occ, s * n, n, j, b);
       parity += between(occ, s * n, n, i, a) - (strictlyBetween(j, i, a) ? 1 : 0) + (strictlyBetween(b, i, a) ? 1 : 0);
@@ -125,29 +128,31 @@ function between(occ: Int32Array, at: number, n: number, p: number, q: number): 
   return c;
 }
 
-/** Orbitals occupied in s but not t (removed) and in t but not s (added), ascending. */
-function differing(strings: SpinStrings, s: number, t: number, scratch: Uint32Array): { removed: number[]; added: number[] } {
+/**
+ * Orbitals occupied in s but not t (into removed, ascending) and in t but not s (into added);
+ * returns how many of each.
+ */
+function differing(strings: SpinStrings, s: number, t: number, removed: Int32Array, added: Int32Array): number {
   const w = strings.nWords;
-  const removed: number[] = [];
-  const added: number[] = [];
+  let nr = 0;
+  let na = 0;
   for (let k = 0; k < w; k++) {
     const a = strings.states[s * w + k]!;
     const b = strings.states[t * w + k]!;
-    scratch[k] = a ^ b;
     let gone = (a & ~b) >>> 0;
     while (gone) {
-      const bit = 31 - Math.clz32(gone & -gone);
-      removed.push(k * 32 + bit);
-      gone = (gone & (gone - 1)) >>> 0;
+      const low = gone & -gone;
+      removed[nr++] = k * 32 + 31 - Math.clz32(low);
+      gone = (gone ^ low) >>> 0;
     }
     let come = (b & ~a) >>> 0;
     while (come) {
-      const bit = 31 - Math.clz32(come & -come);
-      added.push(k * 32 + bit);
-      come = (come & (come - 1)) >>> 0;
+      const low = come & -come;
+      added[na++] = k * 32 + 31 - Math.clz32(low);
+      come = (come ^ low) >>> 0;
     }
   }
-  return { removed, added };
+  return nr;
 }
 
 interface PairList {

@@ -1,9 +1,9 @@
 import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
-import { buildDeterminantRows, determinantNonzeroBound, forEachRow, prepareDeterminants, type DeterminantContext } from '../build/determinantHamiltonian.js';
+import { buildDeterminantRows, determinantNonzeroBound, forEachRow, pieceMatrix, prepareDeterminants, RowSink, type DeterminantContext } from '../build/determinantHamiltonian.js';
 import { determinantOperator } from '../build/determinantOperator.js';
-import { joinRowPieces, type SparseMatrix } from '../build/sparseMatrix.js';
+import type { SparseMatrix } from '../build/sparseMatrix.js';
 import type { Integrals } from '../operators/integrals.js';
 import { lanczos, LANCZOS_DEFAULTS, type LanczosResult, type LinearOperator } from '../solvers/lanczos.js';
 import { matrixOperator, type SolverSettings } from './solve.js';
@@ -66,7 +66,7 @@ export function projectDeterminants(ints: Integrals, basis: Basis, settings: Det
   let operator: LinearOperator;
   let nonzeros: number;
   if (storage === 'csr') {
-    matrix = joinRowPieces(basis.dim, false, [buildDeterminantRows(ctx, 0, basis.dim)]);
+    matrix = pieceMatrix(basis.dim, buildDeterminantRows(ctx, 0, basis.dim));
     operator = matrixOperator(matrix);
     nonzeros = matrix.cols.length;
   } else {
@@ -85,9 +85,9 @@ export function projectDeterminants(ints: Integrals, basis: Basis, settings: Det
 }
 
 function countNonzeros(ctx: DeterminantContext): number {
-  let n = 0;
-  forEachRow(ctx, 0, ctx.dim, { add: () => void n++ }, () => undefined);
-  return n;
+  const counter = RowSink.counter();
+  forEachRow(ctx, 0, ctx.dim, counter, () => undefined);
+  return counter.size;
 }
 
 function gib(bytes: number): string {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { makeBasis } from '../../src/bits/basis.js';
-import { buildDeterminantHamiltonian, buildDeterminantRows, determinantNonzeroBound, prepareDeterminants } from '../../src/build/determinantHamiltonian.js';
+import { buildDeterminantRows, determinantNonzeroBound, pieceMatrix, prepareDeterminants } from '../../src/build/determinantHamiltonian.js';
 import { applyDeterminantRows } from '../../src/build/determinantOperator.js';
 import { joinRowPieces, toDense } from '../../src/build/sparseMatrix.js';
 import { popcount32 } from '../../src/bits/packed.js';
@@ -40,10 +40,13 @@ describe('buildDeterminantHamiltonian', () => {
       const at = new Map(configs.map((x, i) => [x, i]));
       const rng = seededUniform(seed);
       // A random subset (at least two) exercises the skip-when-absent path; the full sector the product path.
-      for (const subset of [configs, configs.filter(() => rng.next() < 0.6)]) {
+      // The full sector takes the product path; a random subset the sampled path, once walking the
+      // rows that share a string and once probing the pair hash.
+      const part = configs.filter(() => rng.next() < 0.6);
+      for (const [subset, scanFactor] of [[configs, 4], [part, 1e9], [part, 0]] as const) {
         if (subset.length < 1) continue;
         const basis = basisOf(subset, 2 * m);
-        const h = buildDeterminantHamiltonian(basis, ints);
+        const h = pieceMatrix(basis.dim, buildDeterminantRows(prepareDeterminants(basis, ints, { scanFactor }), 0, basis.dim));
         const { re } = toDense(h);
         const n = basis.dim;
         for (let r = 0; r < n; r++) {
@@ -83,7 +86,7 @@ describe('buildDeterminantRows', () => {
     const rng = seededUniform(5);
     const subset = configs.filter(() => rng.next() < 0.7);
     const basis = basisOf(subset, 2 * m);
-    const ctx = prepareDeterminants(basis, ints);
+    const ctx = prepareDeterminants(basis, ints, { scanFactor: 1 });
     const whole = joinRowPieces(basis.dim, false, [buildDeterminantRows(ctx, 0, basis.dim)]);
     fc.assert(
       fc.property(fc.array(fc.integer({ min: 1, max: basis.dim - 1 }), { maxLength: 4 }), (cutsRaw) => {
