@@ -26,7 +26,7 @@ export { PauliSumBuilder, groupByFlipMask, isComplexHamiltonian, formatPauliOps,
 export { makeIntegrals, setOneElectron, setTwoElectron, eriIndex, countNonzeroIntegrals, MAX_ORBITALS, type Integrals } from './operators/integrals.js';
 
 export { buildProjectedHamiltonian, buildRows, sectorFlipTest } from './build/projectedHamiltonian.js';
-export { buildDeterminantHamiltonian, buildDeterminantRows, prepareDeterminants, determinantRow, determinantDiagonal, determinantNonzeroBound, forEachRow, RowSink, type DeterminantContext } from './build/determinantHamiltonian.js';
+export { buildDeterminantHamiltonian, buildDeterminantRows, countDeterminantRows, pieceMatrix, prepareDeterminants, determinantRow, determinantDiagonal, determinantNonzeroBound, forEachRow, RowSink, type DeterminantContext } from './build/determinantHamiltonian.js';
 export { applyDeterminantRows, determinantOperator } from './build/determinantOperator.js';
 export { splitSpinStrings, makeSpinStrings, type SpinStrings, type SpinSplit } from './build/spinStrings.js';
 export { stringConnections, type StringConnections } from './build/stringConnections.js';

@@ -113,17 +113,22 @@ export function determinantDiagonal(ctx: DeterminantContext, r: number): number 
  * connected determinants outside the basis are skipped. Real symmetric; within a row the columns
  * come in a fixed order (diagonal, singles, same-spin doubles, opposite-spin doubles), not sorted.
  */
-export function buildDeterminantRows(ctx: DeterminantContext, r0: number, r1: number): SparseMatrixPiece {
-  // Count first, then fill arrays of the exact size: enumeration is cheap next to growing and
-  // copying arrays of hundreds of megabytes.
+export function buildDeterminantRows(ctx: DeterminantContext, r0: number, r1: number, rowEnd: Float64Array = countDeterminantRows(ctx, r0, r1)): SparseMatrixPiece {
+  // Counted first (or by the caller), then filled into arrays of the exact size: enumeration is
+  // cheap next to growing and copying arrays of hundreds of megabytes.
+  const out = RowSink.store(r1 > r0 ? rowEnd[r1 - r0 - 1]! : 0);
+  forEachRow(ctx, r0, r1, out, () => undefined);
+  return { r0, r1, rowEnd, cols: out.cols, values: out.values };
+}
+
+/** Entries of rows r0..r1 without storing them: rowEnd[i] is the running count after row r0 + i. */
+export function countDeterminantRows(ctx: DeterminantContext, r0: number, r1: number): Float64Array {
   const rowEnd = new Float64Array(r1 - r0);
   const counter = RowSink.counter();
   forEachRow(ctx, r0, r1, counter, (r) => {
     rowEnd[r - r0] = counter.size;
   });
-  const out = RowSink.store(counter.size);
-  forEachRow(ctx, r0, r1, out, () => undefined);
-  return { r0, r1, rowEnd, cols: out.cols, values: out.values };
+  return rowEnd;
 }
 
 /** The whole determinant-basis Hamiltonian on one thread. */

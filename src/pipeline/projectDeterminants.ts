@@ -1,7 +1,7 @@
 import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
-import { buildDeterminantRows, determinantNonzeroBound, forEachRow, pieceMatrix, prepareDeterminants, RowSink, type DeterminantContext } from '../build/determinantHamiltonian.js';
+import { buildDeterminantRows, countDeterminantRows, determinantNonzeroBound, pieceMatrix, prepareDeterminants } from '../build/determinantHamiltonian.js';
 import { determinantOperator } from '../build/determinantOperator.js';
 import type { SparseMatrix } from '../build/sparseMatrix.js';
 import type { Integrals } from '../operators/integrals.js';
@@ -59,19 +59,27 @@ export function projectDeterminants(ints: Integrals, basis: Basis, settings: Det
     );
   }
   const ctx = prepareDeterminants(basis, ints);
-  const bound = determinantNonzeroBound(ctx);
-  const matrixBytes = bound * 12 + (basis.dim + 1) * 8;
+  // The bound is exact on product spaces but can be far above the truth on sampled ones, where
+  // most connected determinants are absent: count exactly before giving up on storing.
+  const bytesFor = (entries: number): number => entries * 12 + (basis.dim + 1) * 8;
+  let matrixBytes = bytesFor(determinantNonzeroBound(ctx));
+  let rowEnd: Float64Array | undefined;
+  if (settings.storage !== 'csr' && matrixBytes + vectorBytes > budget) {
+    rowEnd = countDeterminantRows(ctx, 0, basis.dim);
+    matrixBytes = bytesFor(basis.dim > 0 ? rowEnd[basis.dim - 1]! : 0);
+  }
   const storage: DeterminantStorage = settings.storage ?? (matrixBytes + vectorBytes <= budget ? 'csr' : 'matrix-free');
   let matrix: SparseMatrix | undefined;
   let operator: LinearOperator;
   let nonzeros: number;
   if (storage === 'csr') {
-    matrix = pieceMatrix(basis.dim, buildDeterminantRows(ctx, 0, basis.dim));
+    matrix = pieceMatrix(basis.dim, buildDeterminantRows(ctx, 0, basis.dim, rowEnd));
     operator = matrixOperator(matrix);
     nonzeros = matrix.cols.length;
   } else {
     operator = determinantOperator(ctx);
-    nonzeros = countNonzeros(ctx);
+    rowEnd ??= countDeterminantRows(ctx, 0, basis.dim);
+    nonzeros = basis.dim > 0 ? rowEnd[basis.dim - 1]! : 0;
   }
   const t1 = performance.now();
   const eigen = lanczos(operator, {
@@ -82,12 +90,6 @@ export function projectDeterminants(ints: Integrals, basis: Basis, settings: Det
   });
   const t2 = performance.now();
   return { matrix, operator, eigen, nonzeros, storage, memory: { matrixBytes, vectorBytes, budget }, timings: { build: (t1 - t0) / 1000, solve: (t2 - t1) / 1000 } };
-}
-
-function countNonzeros(ctx: DeterminantContext): number {
-  const counter = RowSink.counter();
-  forEachRow(ctx, 0, ctx.dim, counter, () => undefined);
-  return counter.size;
 }
 
 function gib(bytes: number): string {
