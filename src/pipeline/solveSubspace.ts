@@ -87,7 +87,16 @@ export function solveSubspace<P extends SolvedProjection>(samples: SampleSet, op
   let productSpace: ProductSpaceReport | undefined;
   const once = (set: SampleSet): { basis: Basis; report: SubspaceReport; projection: P } => {
     const t0 = performance.now();
-    const selected = selectSubspace(set, { sector: opts.sector, minCount: opts.minCount, maxDim: opts.maxDim });
+    let selected: ReturnType<typeof selectSubspace>;
+    try {
+      selected = selectSubspace(set, { sector: opts.sector, minCount: opts.minCount, maxDim: opts.maxDim });
+    } catch (e) {
+      // Everything off-sector is exactly what repair is for: say so.
+      if (e instanceof BitspanError && e.code === 'empty-subspace' && !opts.repair && opts.sector.weights.length > 0) {
+        throw new BitspanError(e.code, e.message, `${e.hint}; or pass --repair to move off-sector shots into the sector`, { file: e.file, line: e.line });
+      }
+      throw e;
+    }
     let basis = selected.basis;
     if (opts.productSpace) {
       const plan = planProductSpace(basis, opts.productSpace.orbitals);
