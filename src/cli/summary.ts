@@ -38,7 +38,7 @@ export function solveSummary(r: SolveReport): string {
   }
   if (r.repair) {
     const rp = r.repair;
-    lines.push(`repair: ${num(rp.offSector.shots)} off-sector shots (${rp.offSector.configs} distinct), ${num(rp.unrecoverable.shots)} unrecoverable; occupations from ${rp.occupationsFrom}; ${rp.converged ? 'energy settled' : 'round limit reached'}`);
+    lines.push(`repair: ${num(rp.offSector.shots)} off-sector shots (${rp.offSector.configs} distinct), ${num(rp.unrecoverable.shots)} unrecoverable; occupations from ${rp.occupationsFrom}; ${rp.converged ? 'energy settled' : 'round limit reached'}; reporting round ${rp.chosenRound}`);
     rp.rounds.forEach((round, k) => {
       lines.push(`  round ${k + 1}: recovered ${num(round.recovered)} shots (${round.recoveredConfigs} distinct, ${round.newConfigs} new configurations)`);
       lines.push(`  ${energyLine(`E0[round ${k + 1}]`, round.energy, round.residual, round.dimension, r.sector.description)}`);

@@ -29,6 +29,8 @@ export interface RepairReport {
   rounds: RepairRound[];
   /** Whether the energy stopped changing before the round limit. */
   converged: boolean;
+  /** The round (1-based) whose subspace the report describes: the one of lowest energy. */
+  chosenRound: number;
   offSector: { configs: number; shots: number };
   unrecoverable: { configs: number; shots: number };
   /** Where the first round's orbital occupations came from. */
@@ -80,7 +82,7 @@ export interface SubspaceRun<P extends SolvedProjection> {
  * Select the subspace from the samples and solve on it with `project`. With repair, off-sector
  * configurations are moved into the sector guided by orbital occupations — first from the
  * in-sector samples, then from each round's ground state — until the lowest energy changes by
- * less than `tol`·max(1, |E|) or the round limit is reached.
+ * less than `tol`·max(1, |E|) or the round limit is reached; the round of lowest energy is returned.
  */
 export function solveSubspace<P extends SolvedProjection>(samples: SampleSet, opts: SubspaceOptions, project: (basis: Basis) => P): SubspaceRun<P> {
   const timings = { filter: 0, build: 0, solve: 0 };
@@ -133,6 +135,9 @@ export function solveSubspace<P extends SolvedProjection>(samples: SampleSet, op
   const rounds: RepairRound[] = [];
   let converged = false;
   let last: { basis: Basis; report: SubspaceReport; projection: P } | undefined;
+  // Every round's energy is a variational upper bound, so the lowest one is kept.
+  let best: { basis: Basis; report: SubspaceReport; projection: P } | undefined;
+  let chosenRound = 0;
   let account: RepairAccount | undefined;
   for (let round = 1; round <= maxRounds; round++) {
     const t0 = performance.now();
@@ -144,6 +149,10 @@ export function solveSubspace<P extends SolvedProjection>(samples: SampleSet, op
     const energy = eigen.values[0]!;
     let fresh = 0;
     for (let i = 0; i < last.basis.dim; i++) if (inSector.indexOf(last.basis.states, i * last.basis.nWords) < 0) fresh++;
+    if (!best || energy < best.projection.eigen.values[0]!) {
+      best = last;
+      chosenRound = round;
+    }
     rounds.push({ recovered: account.recovered.shots, energy, residual: eigen.residuals[0]!, recoveredConfigs: account.recovered.configs, dimension: last.basis.dim, newConfigs: fresh });
     const previous = rounds.length > 1 ? rounds[rounds.length - 2]!.energy : undefined;
     if (previous !== undefined && Math.abs(energy - previous) <= tol * Math.max(1, Math.abs(energy))) {
@@ -154,8 +163,8 @@ export function solveSubspace<P extends SolvedProjection>(samples: SampleSet, op
     occ = occupations(b.states, b.nWords, b.qubits, probabilities(eigen.vectors[0]!, last.projection.complex ?? false, b.dim), b.dim);
   }
   return {
-    ...last!,
-    repair: { rounds, converged, offSector: account!.offSector, unrecoverable: account!.unrecoverable, occupationsFrom, seed },
+    ...best!,
+    repair: { rounds, converged, chosenRound, offSector: account!.offSector, unrecoverable: account!.unrecoverable, occupationsFrom, seed },
     productSpace,
     timings,
   };
