@@ -1,10 +1,12 @@
 import { slotCountFor } from './hashIndex.js';
 
-/**
+/*
  * Open-addressing hash index over pairs of non-negative integers (a spin-up string index and a
  * spin-down string index), so a determinant is found from its two string indices without touching
- * its packed words. Slot value: the entry index, or −1 when empty.
+ * its packed words.
  */
+
+/** Slots for the `count` distinct pairs (first[i], second[i]): slot value is i, or −1 when empty. */
 export function buildPairSlots(first: Int32Array, second: Int32Array, count: number): Int32Array {
   const slots = new Int32Array(slotCountFor(count)).fill(-1);
   const mask = slots.length - 1;

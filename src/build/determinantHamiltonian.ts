@@ -111,7 +111,8 @@ export function determinantDiagonal(ctx: DeterminantContext, r: number): number 
  * Rows r0..r1 of H in the determinant basis by the Slater–Condon rules: the diagonal, single and
  * double excitations of each spin, and opposite-spin doubles, each looked up among the basis rows;
  * connected determinants outside the basis are skipped. Real symmetric; within a row the columns
- * come in a fixed order (diagonal, singles, same-spin doubles, opposite-spin doubles), not sorted.
+ * come in a deterministic order (diagonal first, then by excitation kind), not sorted. `rowEnd`
+ * may be passed when the rows were already counted (`countDeterminantRows`).
  */
 export function buildDeterminantRows(ctx: DeterminantContext, r0: number, r1: number, rowEnd: Float64Array = countDeterminantRows(ctx, r0, r1)): SparseMatrixPiece {
   // Counted first (or by the caller), then filled into arrays of the exact size: enumeration is

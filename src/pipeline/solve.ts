@@ -74,6 +74,7 @@ export interface SolveReport {
   productSpace?: ProductSpaceReport;
 }
 
+/** The `integrals` entry of a report: what the FCIDUMP held and how H was stored. */
 export interface IntegralsReport {
   file: string;
   orbitals: number;
