@@ -210,6 +210,27 @@ export function projectAndSolve(hamiltonian: PauliSum, basis: Basis, sector: Sec
   return { matrix, eigen, timings: { build: (t1 - t0) / 1000, solve: (t2 - t1) / 1000 } };
 }
 
+/** A projection of either kind of Hamiltonian, in the shape a report needs. */
+interface OperatorProjection {
+  matrix: SparseMatrix | undefined;
+  operator: LinearOperator;
+  eigen: LanczosResult;
+  nonzeros: number;
+  complex: boolean;
+  /** How the determinant Hamiltonian was held (undefined for Pauli sums). */
+  storage: DeterminantStorage | undefined;
+  timings: { build: number; solve: number };
+}
+
+/** Project a Pauli sum (qubit path) or molecular integrals (determinant path) on `basis` and solve. */
+function projectOperator(operator: LoadedOperator, basis: Basis, sector: Sector, settings: SolverSettings & { memoryBudget: number }): OperatorProjection {
+  if (operator.kind === 'pauli') {
+    const p = projectAndSolve(operator.sum, basis, sector, settings);
+    return { ...p, operator: matrixOperator(p.matrix), nonzeros: nonzeros(p.matrix), complex: p.matrix.complex, storage: undefined };
+  }
+  return { ...projectDeterminants(operator.dump.integrals, basis, settings), complex: false };
+}
+
 /** Read the Hamiltonian and dumps, select (or repair) the subspace, build H_S and find its lowest eigenpairs. */
 export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   const t0 = performance.now();
@@ -251,13 +272,7 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
       productSpace: opts.productSpace && operator.kind === 'integrals' ? { orbitals: operator.dump.integrals.orbitals, memoryBudget } : undefined,
       log: opts.log,
     },
-    (basis) => {
-      if (operator.kind === 'pauli') {
-        const p = projectAndSolve(operator.sum, basis, sector, settings);
-        return { ...p, operator: matrixOperator(p.matrix), nonzeros: nonzeros(p.matrix), complex: p.matrix.complex, storage: undefined };
-      }
-      return { ...projectDeterminants(operator.dump.integrals, basis, { ...settings, memoryBudget }), complex: false };
-    },
+    (basis) => projectOperator(operator, basis, sector, { ...settings, memoryBudget }),
   );
   const { basis, projection, report } = run;
   const { eigen } = projection;
@@ -287,9 +302,9 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     timings,
     groundState: { top: topConfigurations(basis, eigen.vectors[0]!, projection.complex, opts.top ?? 10, opts.qubit0) },
   };
-  if (operator.kind === 'integrals') {
+  if (operator.kind === 'integrals' && electrons && projection.storage) {
     const d = operator.dump;
-    result.integrals = { file: d.file, orbitals: d.integrals.orbitals, electrons: electrons!, nelec: d.electrons ?? null, ms2: d.ms2, isym: d.isym, orbsym: d.orbsym, core: d.integrals.core, storage: projection.storage! };
+    result.integrals = { file: d.file, orbitals: d.integrals.orbitals, electrons, nelec: d.electrons ?? null, ms2: d.ms2, isym: d.isym, orbsym: d.orbsym, core: d.integrals.core, storage: projection.storage };
   }
   if (run.repair) result.repair = run.repair;
   if (run.productSpace) result.productSpace = run.productSpace;
