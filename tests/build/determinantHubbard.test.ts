@@ -71,30 +71,32 @@ describe('buildDeterminantHamiltonian on a Hubbard ring', () => {
     closeTo(e, fill(up) + fill(down), 1e-10, 'free-fermion energy');
   });
 
-  it('buildDeterminantHamiltonian is unchanged when the orbitals sit in a larger register across word boundaries', () => {
-    // Embedding 4 active orbitals among 20 (40 qubits, the spin-down register straddles the first
-    // 32-bit word) with the others empty changes no Jordan–Wigner sign: the matrices must agree.
-    const small = randomIntegrals(4, 31);
-    const at = [0, 9, 13, 19];
-    const big = makeIntegrals(20);
-    big.core = small.core;
-    for (let p = 0; p < 4; p++) {
-      for (let q = 0; q < 4; q++) {
-        setOneElectron(big, at[p]!, at[q]!, small.h1[p * 4 + q]!);
-        for (let r = 0; r < 4; r++) for (let s = 0; s < 4; s++) setTwoElectron(big, at[p]!, at[q]!, at[r]!, at[s]!, small.eri[((p * 4 + q) * 4 + r) * 4 + s]!);
+  for (const [orbitals, at] of [[20, [0, 9, 13, 19]], [40, [0, 17, 31, 39]]] as const) {
+    it(`buildDeterminantHamiltonian is unchanged when the orbitals sit among ${orbitals} (${2 * orbitals} qubits, registers across word boundaries)`, () => {
+      // Embedding 4 active orbitals among many empty ones changes no Jordan–Wigner sign (no occupied
+      // qubit lies in between that was not there before): the matrices must agree.
+      const small = randomIntegrals(4, 31);
+      const big = makeIntegrals(orbitals);
+      big.core = small.core;
+      for (let p = 0; p < 4; p++) {
+        for (let q = 0; q < 4; q++) {
+          setOneElectron(big, at[p]!, at[q]!, small.h1[p * 4 + q]!);
+          for (let r = 0; r < 4; r++) for (let s = 0; s < 4; s++) setTwoElectron(big, at[p]!, at[q]!, at[r]!, at[s]!, small.eri[((p * 4 + q) * 4 + r) * 4 + s]!);
+        }
       }
-    }
-    const basis = subset(fullSector(4, 2, 2), 0.8, 4);
-    const wide = new Uint32Array(basis.dim * 2);
-    for (let i = 0; i < basis.dim; i++) {
-      for (let q = 0; q < 8; q++) {
-        if (!((basis.states[i]! >>> q) & 1)) continue;
-        const t = q < 4 ? at[q]! : 20 + at[q - 4]!;
-        wide[i * 2 + (t >>> 5)]! |= 1 << (t & 31);
+      const basis = subset(fullSector(4, 2, 2), 0.8, 4);
+      const nWords = Math.ceil((2 * orbitals) / 32);
+      const wide = new Uint32Array(basis.dim * nWords);
+      for (let i = 0; i < basis.dim; i++) {
+        for (let q = 0; q < 8; q++) {
+          if (!((basis.states[i]! >>> q) & 1)) continue;
+          const t = q < 4 ? at[q]! : orbitals + at[q - 4]!;
+          wide[i * nWords + (t >>> 5)]! |= 1 << (t & 31);
+        }
       }
-    }
-    const wideBasis = makeBasis(40, 2, wide, basis.dim);
-    // Both bases sort the same way (the map is monotone), so rows correspond one to one.
-    expect(maxDifference(buildDeterminantHamiltonian(wideBasis, big), buildDeterminantHamiltonian(basis, small))).toBeLessThan(1e-13);
-  });
+      const wideBasis = makeBasis(2 * orbitals, nWords, wide, basis.dim);
+      // Both bases sort the same way (the map is monotone), so rows correspond one to one.
+      expect(maxDifference(buildDeterminantHamiltonian(wideBasis, big), buildDeterminantHamiltonian(basis, small))).toBeLessThan(1e-13);
+    });
+  }
 });
