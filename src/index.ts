@@ -19,19 +19,32 @@ export { writeFileAtomic } from './io/atomicWrite.js';
 export { parseJsonWithLines, type JsonWithLines, type JsonPath } from './io/jsonWithLines.js';
 export { formatCsv, csvCell, csvRow, type CsvCell } from './io/formatCsv.js';
 export { resolveInside } from './io/safePath.js';
+export { readFcidump, type Fcidump } from './io/fcidump.js';
+export { formatFcidump, type FcidumpHeader } from './io/formatFcidump.js';
 
 export { parseWeightSpec, compileSector, inSector, describeSector, type Sector, type WeightConstraint, type CompiledSector } from './sectors/sector.js';
+export { electronSector, parseElectrons, electronsFromHeader } from './sectors/electronSector.js';
+export { occupations, probabilities } from './sectors/occupations.js';
+export { repairConfiguration, repairSamples, type RepairAccount } from './sectors/repair.js';
+export { planProductSpace, buildProductSpace, type ProductSpacePlan } from './sectors/productSpace.js';
 export { selectSubspace, type SubspaceReport, type SampleAccount, type GroupAccount, type SelectOptions } from './sectors/selectSubspace.js';
 
 export { PauliSumBuilder, groupByFlipMask, isComplexHamiltonian, formatPauliOps, type PauliSum, type PauliTerm, type FlipGroups } from './operators/pauliSum.js';
+export { makeIntegrals, setOneElectron, setTwoElectron, eriIndex, countNonzeroIntegrals, MAX_ORBITALS, type Integrals } from './operators/integrals.js';
 
 export { buildProjectedHamiltonian, buildUpperRows, assembleHermitian, sectorFlipTest, type UpperPiece, type SectorFlipTest } from './build/projectedHamiltonian.js';
+export { buildDeterminantHamiltonian, buildDeterminantRows, countDeterminantRows, pieceMatrix, prepareDeterminants, determinantRow, determinantDiagonal, determinantNonzeroBound, forEachRow, RowSink, type DeterminantContext } from './build/determinantHamiltonian.js';
+export { applyDeterminantRows, determinantOperator } from './build/determinantOperator.js';
+export { splitSpinStrings, makeSpinStrings, type SpinStrings, type SpinSplit } from './build/spinStrings.js';
+export { stringConnections, type StringConnections } from './build/stringConnections.js';
+export { extractBits, depositBits } from './bits/bitRange.js';
+export { buildPairSlots, lookupPair } from './bits/pairIndex.js';
 export { csrApplyRows, joinRowPieces, nonzeros, toDense, type SparseMatrix, type SparseMatrixPiece } from './build/sparseMatrix.js';
 
 export { lanczos, LANCZOS_DEFAULTS, type LanczosOptions, type LanczosResult, type LinearOperator } from './solvers/lanczos.js';
 export { symmetricEigen } from './solvers/symmetricEigen.js';
 
-export { solve, projectAndSolve, checkRegister, sectorReport, matrixOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
+export { solve, projectAndSolve, projectAndSolveSync, checkRegister, sectorReport, matrixOperator, matrixFreeOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
 export { solveSamples, solveBasis, exactReference, resolveAnalysis, readStartState, EXACT_MAX_DIM, type SubspaceSolveOptions, type SolveAnalysisOptions } from './pipeline/solve.js';
 export { analyzeLowest, energyError, OBSERVABLE_CAVEAT, type AnalysisOptions, type AnalysisReport, type AnalysisInput, type ReferenceEnergy, type EnergyError, type EstimateDetails, type BatchReport } from './pipeline/analyze.js';
 export { expandSubspace, expandOnce, expandsByImportance, type ExpandOptions, type ExpansionReport, type ExpansionStep, type LowestState } from './pipeline/expand.js';
@@ -50,6 +63,9 @@ export { stateOnBasis, type StateOnConfigs } from './analysis/stateOnBasis.js';
 export { energyPlot, type EnergyPlotData } from './analysis/plots/energyPlot.js';
 export { errorPlot, type ErrorPlotData } from './analysis/plots/errorPlot.js';
 export { zProfilePlot } from './analysis/plots/zProfilePlot.js';
+export { solveWithRepair, loadOperator, type LoadedOperator, type IntegralsReport } from './pipeline/solveWithRepair.js';
+export { projectDeterminants, lanczosVectorBytes, DEFAULT_MEMORY_BUDGET, type DeterminantProjection, type DeterminantSettings, type DeterminantStorage } from './pipeline/projectDeterminants.js';
+export { solveSubspace, type SubspaceOptions, type SubspaceRun, type RepairReport, type RepairRound, type ProductSpaceReport, type SolvedProjection } from './pipeline/solveSubspace.js';
 export { seededUniform } from './util/random.js';
 
 export type { CommandCatalog, CommandSpec, OptionSpec } from './batch/commandSpec.js';

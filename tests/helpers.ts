@@ -4,11 +4,6 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../src/cli/main.js';
-import { buildProjectedHamiltonian } from '../src/build/projectedHamiltonian.js';
-import { groupByFlipMask } from '../src/operators/pauliSum.js';
-import { compileSector } from '../src/sectors/sector.js';
-import { lanczos } from '../src/solvers/lanczos.js';
-import { matrixOperator } from '../src/pipeline/solve.js';
 import { complexMatrix, type ComplexMatrix } from '../src/solvers/complexMatrix.js';
 import { seededNormal } from '../src/util/normal.js';
 
@@ -254,17 +249,5 @@ export function uniformErrors(n: number, sigma: number): ComplexMatrix {
   return e;
 }
 
-/**
- * Synchronous single-thread build and solve for tests that need a projection inside synchronous
- * code: the same builder and Lanczos as `projectAndSolve` (which is async because it may use threads).
- */
-export function projectAndSolveSync(
-  h: import('../src/operators/pauliSum.js').PauliSum,
-  basis: import('../src/bits/basis.js').Basis,
-  sector: import('../src/sectors/sector.js').Sector,
-  settings: { eigs?: number; tol?: number; seed?: number } = {},
-): { matrix: import('../src/build/sparseMatrix.js').SparseMatrix; eigen: import('../src/solvers/lanczos.js').LanczosResult } {
-  const matrix = buildProjectedHamiltonian(basis, groupByFlipMask(h, basis.nWords), compileSector(sector, basis.qubits, basis.nWords));
-  const eigen = lanczos(matrixOperator(matrix), { eigs: settings.eigs ?? 1, tol: settings.tol ?? 1e-8, seed: settings.seed ?? 1 });
-  return { matrix, eigen };
-}
+/** Synchronous single-thread build and solve (the library's `projectAndSolveSync`). */
+export { projectAndSolveSync } from '../src/pipeline/solve.js';

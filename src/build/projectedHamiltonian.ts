@@ -220,11 +220,15 @@ export function applyUpperRows(basis: Basis, groups: FlipGroups, test: SectorFli
 export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPiece[], shared = false): SparseMatrix {
   const lower = new Int32Array(dim);
   let upper = 0;
+  let diagonals = 0;
+  // A diagonal that is exactly zero is not stored, as off-diagonal zeros are not.
+  const hasDiag = (p: UpperPiece, i: number): boolean => (complex ? p.diag[2 * i] !== 0 || p.diag[2 * i + 1] !== 0 : p.diag[i] !== 0);
   for (const p of pieces) {
     for (let e = 0; e < p.cols.length; e++) lower[p.cols[e]!]!++;
     upper += p.cols.length;
+    for (let i = 0; i < p.r1 - p.r0; i++) if (hasDiag(p, i)) diagonals++;
   }
-  const nnz = 2 * upper + dim;
+  const nnz = 2 * upper + diagonals;
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(bytes));
   const rowPtr = new Float64Array(alloc((dim + 1) * 8));
   const lowerPos = new Int32Array(dim);
@@ -234,7 +238,7 @@ export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPi
       const inRow = p.rowEnd[r - p.r0]! - (r === p.r0 ? 0 : p.rowEnd[r - p.r0 - 1]!);
       rowPtr[r] = at;
       lowerPos[r] = at;
-      at += lower[r]! + 1 + inRow;
+      at += lower[r]! + (hasDiag(p, r - p.r0) ? 1 : 0) + inRow;
     }
   }
   rowPtr[dim] = at;
@@ -245,12 +249,14 @@ export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPi
     for (let r = p.r0; r < p.r1; r++) {
       const i = r - p.r0;
       let pos = rowPtr[r]! + lower[r]!;
-      cols[pos] = r;
-      if (complex) {
-        values[2 * pos] = p.diag[2 * i]!;
-        values[2 * pos + 1] = p.diag[2 * i + 1]!;
-      } else values[pos] = p.diag[i]!;
-      pos++;
+      if (hasDiag(p, i)) {
+        cols[pos] = r;
+        if (complex) {
+          values[2 * pos] = p.diag[2 * i]!;
+          values[2 * pos + 1] = p.diag[2 * i + 1]!;
+        } else values[pos] = p.diag[i]!;
+        pos++;
+      }
       for (const end = p.rowEnd[i]!; e < end; e++, pos++) {
         const c = p.cols[e]!;
         cols[pos] = c;

@@ -28,6 +28,22 @@ export function solveSummary(r: SolveReport): string {
     lines.push(`  ${g.file}: ${num(g.shots)} shots, ${g.distinct} distinct, ${g.kept} kept (${g.newKept} new), ${droppedText(g)}`);
   }
   lines.push(`sector: ${r.sector.description}${r.sector.minCount !== null ? `, min-count ${r.sector.minCount}` : ''}${r.sector.maxDim !== null ? `, max-dim ${r.sector.maxDim}` : ''}`);
+  if (r.integrals) {
+    const i = r.integrals;
+    lines.push(`integrals: ${i.orbitals} orbitals, ${i.electrons[0]} spin-up + ${i.electrons[1]} spin-down electrons, core energy ${i.core}, determinant Hamiltonian ${i.storage === 'csr' ? 'stored' : 'applied matrix-free'}`);
+  }
+  if (r.productSpace) {
+    const p = r.productSpace;
+    lines.push(`product space: ${p.alphaStrings} spin-up × ${p.betaStrings} spin-down strings${p.symmetric ? ' (union of both spins)' : ''} = ${p.dimension} determinants, from ${p.sampledDimension} sampled`);
+  }
+  if (r.repair) {
+    const rp = r.repair;
+    lines.push(`repair: ${num(rp.offSector.shots)} off-sector shots (${rp.offSector.configs} distinct), ${num(rp.unrecoverable.shots)} unrecoverable; occupations from ${rp.occupationsFrom}; ${rp.converged ? 'energy settled' : 'round limit reached'}; reporting round ${rp.chosenRound}`);
+    rp.rounds.forEach((round, k) => {
+      lines.push(`  round ${k + 1}: recovered ${num(round.recovered)} shots (${round.recoveredConfigs} distinct, ${round.newConfigs} new configurations)`);
+      lines.push(`  ${energyLine(`E0[round ${k + 1}]`, round.energy, round.residual, round.dimension, r.sector.description)}`);
+    });
+  }
   lines.push(`projected Hamiltonian: dimension ${r.dimension}, ${r.storage === 'stored' ? '' : '~'}${r.nonzeros} nonzeros, ${r.complex ? 'complex Hermitian' : 'real symmetric'}, ${r.storage} (${r.memory.reason})`);
   r.energies.forEach((e, i) => lines.push(energyLine(`E${i}`, e, r.residuals[i]!, r.dimension, r.sector.description)));
   lines.push(`Lanczos: ${r.iterations} iterations, ${r.matvecs} matrix-vector products, ${r.converged ? 'converged' : 'NOT converged'} (tol ${r.tolerance})`);

@@ -3,7 +3,7 @@ import { basisIndexOf, type Basis } from '../bits/basis.js';
 import { formatBitstring } from '../bits/packed.js';
 import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
-import { applyUpperRows, sectorFlipTest } from '../build/projectedHamiltonian.js';
+import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { MatvecTeam } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
@@ -22,10 +22,25 @@ import { enumerateSector, sectorDimension } from '../sectors/enumerateSector.js'
 import { stateOnBasis, type StateOnConfigs } from '../analysis/stateOnBasis.js';
 import { analyzeLowest, type AnalysisOptions, type AnalysisReport, type ReferenceEnergy } from './analyze.js';
 import { expandSubspace, type ExpandOptions, type ExpansionReport } from './expand.js';
+import type { Fcidump } from '../io/fcidump.js';
+import type { ProductSpaceReport, RepairReport } from './solveSubspace.js';
+import { solveWithRepair, type IntegralsReport } from './solveWithRepair.js';
 
 /** Everything `solve` needs; file paths are read here, at the edge. */
 export interface SolveOptions {
-  hamiltonian: string;
+  /** Pauli-sum Hamiltonian file; exactly one of `hamiltonian` and `integrals` is given. */
+  hamiltonian?: string;
+  /** FCIDUMP file: the Hamiltonian as molecular integrals, solved in the determinant basis. */
+  integrals?: string;
+  /** Spin-up and spin-down electron counts for `integrals` (default: NELEC and MS2 of the header). */
+  electrons?: [number, number];
+  /** Repair off-sector samples instead of dropping them, for up to `repairRounds` rounds. */
+  repair?: boolean;
+  repairRounds?: number;
+  /** Close the determinant subspace under spin-up × spin-down combination (`integrals` only). */
+  productSpace?: boolean;
+  /** Progress lines (e.g. the product-space dimension before building). */
+  log?: (line: string) => void;
   samples: string[];
   sector?: Sector;
   minCount?: number;
@@ -89,6 +104,12 @@ export interface SolveReport extends Partial<AnalysisReport> {
   groundState: { top: Array<{ bitstring: string; probability: number }> };
   /** Present with `expand`. */
   expansion?: ExpansionReport;
+  /** Present with `integrals`: what the FCIDUMP held and how H was stored. */
+  integrals?: IntegralsReport;
+  /** Present with `repair`: per round, shots recovered and the energy. */
+  repair?: RepairReport;
+  /** Present with `productSpace`. */
+  productSpace?: ProductSpaceReport;
   /** Present with `startState`: how much of the saved state the subspace holds. */
   startState?: { file: string; configurations: number; matched: number; used: boolean };
 }
@@ -107,7 +128,11 @@ export interface SolveOutcome {
   basis: Basis;
   /** The stored matrix; undefined when products were matrix-free. */
   matrix?: SparseMatrix;
-  hamiltonian: PauliSum;
+  /** The Pauli Hamiltonian (undefined on the determinant path, which sets `integrals`). */
+  hamiltonian?: PauliSum;
+  integrals?: Fcidump;
+  /** The operator the eigenpairs belong to, when the path kept one. */
+  operator?: LinearOperator;
   eigen: LanczosResult;
 }
 
@@ -250,8 +275,33 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   };
 }
 
+/**
+ * Synchronous single-thread stored build and solve, for callers that cannot await (the repair
+ * loop, tests); same builder and Lanczos as `projectAndSolve`.
+ */
+export function projectAndSolveSync(hamiltonian: PauliSum, basis: Basis, sector: Sector, settings: SolverSettings = {}): { matrix: SparseMatrix; eigen: LanczosResult; timings: { build: number; solve: number } } {
+  const t0 = performance.now();
+  const matrix = buildProjectedHamiltonian(basis, groupByFlipMask(hamiltonian, basis.nWords), compileSector(sector, basis.qubits, basis.nWords));
+  const t1 = performance.now();
+  const eigen = lanczos(matrixOperator(matrix), {
+    eigs: settings.eigs ?? 1,
+    tol: settings.tol ?? LANCZOS_DEFAULTS.tol,
+    seed: settings.seed ?? LANCZOS_DEFAULTS.seed,
+    start: settings.start,
+  });
+  return { matrix, eigen, timings: { build: (t1 - t0) / 1000, solve: (performance.now() - t1) / 1000 } };
+}
+
 /** Read the Hamiltonian and dumps, select the subspace, build H_S and find its lowest eigenpairs. */
 export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
+  if (opts.integrals !== undefined || opts.repair || opts.productSpace) {
+    if (opts.analysis || opts.expand || opts.startState) {
+      throw new BitspanError('bad-argument', 'estimates, expansion and start states are not available with --integrals, --repair or --product-space yet', 'run those without the molecular/repair flags');
+    }
+    return solveWithRepair(opts);
+  }
+  if (opts.hamiltonian === undefined) throw new BitspanError('bad-argument', 'no Hamiltonian given', 'give a Pauli sum with --hamiltonian FILE or molecular integrals with --integrals FILE.fcidump');
+  const hamiltonianFile = opts.hamiltonian;
   const t0 = performance.now();
   const timings: Record<string, number> = {};
   const lap = (name: string, since: number): number => {
@@ -259,11 +309,11 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     timings[name] = (now - since) / 1000;
     return now;
   };
-  const hamiltonian = await readHamiltonian(opts.hamiltonian);
+  const hamiltonian = await readHamiltonian(hamiltonianFile);
   const t = lap('readHamiltonian', t0);
   const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format });
   lap('readSamples', t);
-  checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
+  checkRegister(hamiltonian, hamiltonianFile, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
   const settings: SolverSettings = {
     eigs: opts.eigs,
@@ -280,7 +330,7 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   const outcome = await solveSamples(
     hamiltonian,
     samples,
-    { hamiltonianFile: opts.hamiltonian, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start, analysis },
+    { hamiltonianFile, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start, analysis },
     timings,
   );
   timings.total = (performance.now() - t0) / 1000;

@@ -101,9 +101,9 @@ describe('parseManifest', () => {
   });
 
   it('parseManifest skips a default that only another command knows, and refuses one nobody knows', () => {
-    const m = parse({ output: 'o', defaults: { hamiltonian: 'h.txt', samples: ['t.csv'], estimate: true }, jobs: [{ name: 'a', command: 'solve' }, { name: 'b', command: 'scan' }] });
-    expect(m.jobs[0]!.argv).not.toContain('--estimate');
-    expect(m.jobs[1]!.argv).toContain('--estimate');
+    const m = parse({ output: 'o', defaults: { hamiltonian: 'h.txt', samples: ['t.csv'], values: [1, 2] }, jobs: [{ name: 'a', command: 'solve' }, { name: 'b', command: 'scan' }] });
+    expect(m.jobs[0]!.argv).not.toContain('--values');
+    expect(m.jobs[1]!.argv).toContain('--values');
     const e = errorOf(() => parse({ output: 'o', defaults: { hamiltonan: 'h.txt' }, jobs: [{ name: 'a', command: 'solve' }] }));
     expect(e.code).toBe('bad-manifest');
     expect(e.message).toContain('"hamiltonan"');
@@ -117,7 +117,7 @@ describe('parseManifest', () => {
       ['a value the command refuses', { ...base, jobs: [{ name: 'a' }, { name: 'b', maxDim: 0 }] }, /job 'b' \(jobs\[1\]\): "maxDim": --max-dim '0' is not a positive whole number/, '"maxDim": 0'],
       ['an unknown key', { ...base, jobs: [{ name: 'a', maxdim: 5 }] }, /job 'a' \(jobs\[0\]\): "maxdim" is not an option of solve/, '"maxdim": 5'],
       ['a list for a one-value option', { ...base, jobs: [{ name: 'a', eigs: [1, 2] }] }, /"eigs" is a list, but --eigs takes one value/, '"eigs": ['],
-      ['a missing required option', { output: 'o', jobs: [{ name: 'a', command: 'solve', samples: ['t.csv'] }] }, /job 'a' \(jobs\[0\]\) has no "hamiltonian"/, '"jobs": [\n    {'],
+      ['a missing required option', { output: 'o', jobs: [{ name: 'a', command: 'solve', hamiltonian: 'h.txt' }] }, /job 'a' \(jobs\[0\]\) has no "samples"/, '"jobs": [\n    {'],
       ['an option that writes its own file', { ...base, jobs: [{ name: 'a', out: '../elsewhere.json' }] }, /"out" \(--out\) writes its own file/, '"out": "../'],
       ['an unknown command', { ...base, jobs: [{ name: 'a', command: 'sovle' }] }, /unknown command "sovle"/, '"command": "sovle"'],
       ['a boolean given a string', { output: 'o', jobs: [{ name: 'a', command: 'scan', hamiltonian: 'h', estimate: 'yes' }] }, /"estimate" is "yes", not true or false/, '"estimate"'],

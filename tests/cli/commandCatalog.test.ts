@@ -23,7 +23,7 @@ describe('commandCatalog', () => {
 
   it('commandCatalog reads each option of solve: key, flag, kind, whether it is required or names files', () => {
     const o = catalog.get('solve')!.options;
-    expect(o.get('hamiltonian')).toMatchObject({ flag: '--hamiltonian', kind: 'value', required: true, path: true, writesOutput: false });
+    expect(o.get('hamiltonian')).toMatchObject({ flag: '--hamiltonian', kind: 'value', required: false, path: true, writesOutput: false });
     expect(o.get('samples')).toMatchObject({ flag: '--samples', kind: 'list', required: true, path: true });
     expect(o.get('maxDim')).toMatchObject({ flag: '--max-dim', kind: 'value', required: false, path: false });
     expect(o.get('weight')).toMatchObject({ flag: '--weight', kind: 'value', path: false });

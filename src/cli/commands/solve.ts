@@ -7,6 +7,7 @@ import { stateObservables } from '../../analysis/observables.js';
 import { zProfilePlot } from '../../analysis/plots/zProfilePlot.js';
 import { solve } from '../../pipeline/solve.js';
 import type { CliIo } from '../io.js';
+import { parseElectrons } from '../../sectors/electronSector.js';
 import { positiveInt } from '../parse.js';
 import { addEstimateOptions, addExpandOptions, checkEstimateFlags, expandFromFlags, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
 import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
@@ -14,7 +15,12 @@ import { solveSummary } from '../summary.js';
 import { progressFor } from '../progress.js';
 
 interface SolveFlags extends SampleFlags, SolverFlags, ExpandFlags, EstimateFlags {
-  hamiltonian: string;
+  hamiltonian?: string;
+  integrals?: string;
+  electrons?: [number, number];
+  repair?: boolean;
+  repairRounds?: number;
+  productSpace?: boolean;
   samples: string[];
   eigs: number;
   tol: number;
@@ -32,12 +38,17 @@ interface SolveFlags extends SampleFlags, SolverFlags, ExpandFlags, EstimateFlag
 
 /** `bitspan solve`: the lowest energies of the Hamiltonian projected on the sampled configurations. */
 export function solveCommand(io: CliIo): Command {
-  const cmd = new Command('solve').description('lowest energies of a Pauli Hamiltonian projected on sampled configurations');
-  cmd.requiredOption('--hamiltonian <file>', 'Pauli-sum Hamiltonian (text or .json)');
+  const cmd = new Command('solve').description('lowest energies of a Pauli Hamiltonian or molecular integrals projected on sampled configurations');
+  cmd.option('--hamiltonian <file>', 'Pauli-sum Hamiltonian (text or .json)');
+  cmd.option('--integrals <file>', 'molecular integrals (FCIDUMP), solved in the determinant basis instead of a Pauli sum');
+  cmd.option('--electrons <A,B>', 'spin-up and spin-down electron counts (with --integrals; default from NELEC and MS2)', parseElectrons);
   cmd.requiredOption('--samples <files...>', 'sample dumps (CSV, JSON counts or text), one group per file');
   addSampleOptions(cmd);
   addSolverOptions(cmd);
   cmd
+    .option('--repair', 'repair off-sector configurations (wrong weight in a register) instead of dropping them')
+    .option('--repair-rounds <n>', 'at most N rounds of solve, occupations, repair (default 3)', positiveInt('--repair-rounds'))
+    .option('--product-space', 'with --integrals: use every sampled spin-up string with every sampled spin-down string')
     .option('--top <n>', 'most probable ground-state configurations to report', positiveInt('--top'), 10)
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
@@ -51,6 +62,7 @@ export function solveCommand(io: CliIo): Command {
     .option('--start-state <file>', 'start Lanczos from a state saved with --save-state')
     .option('--plot <file>', 'plot the per-qubit <Z> profile of the lowest state (.svg or .png)')
     .action(async (f: SolveFlags) => {
+      if (f.repairRounds !== undefined && !f.repair) throw new BitspanError('bad-argument', '--repair-rounds without --repair', 'add --repair, or drop --repair-rounds');
       checkEstimateFlags(f);
       if ((f.batches === undefined) !== (f.batchSize === undefined)) {
         throw new BitspanError('bad-argument', '--batches and --batch-size go together', 'e.g. --batches 10 --batch-size 500');
@@ -60,6 +72,12 @@ export function solveCommand(io: CliIo): Command {
       const progress = progressFor(io, Boolean(f.json));
       const { report, basis, eigen } = await solve({
         hamiltonian: f.hamiltonian,
+        integrals: f.integrals,
+        electrons: f.electrons,
+        repair: f.repair,
+        repairRounds: f.repairRounds,
+        productSpace: f.productSpace,
+        log: (line) => io.stderr(`bitspan: ${line}\n`),
         samples: f.samples,
         sector: sectorFromFlags(f),
         minCount: f.minCount,
