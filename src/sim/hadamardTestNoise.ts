@@ -45,7 +45,8 @@ export function hadamardTestNoise(exact: SimulatedKrylovMatrices, opts: Hadamard
       const sIm = j === k ? { value: 0, err: 0 } : estimate(exact.s.im[a]!);
       const hRe = estimate(exact.h.re[a]! / lambda);
       const hIm = j === k ? { value: 0, err: 0 } : estimate(exact.h.im[a]! / lambda);
-      for (const [idx, sign] of [[a, 1], [b, -1]] as const) {
+      // The diagonal once (no −0 from mirroring), the rest mirrored as the conjugate.
+      for (const [idx, sign] of j === k ? ([[a, 1]] as const) : ([[a, 1], [b, -1]] as const)) {
         out.s.re[idx] = sRe.value;
         out.s.im[idx] = sign * sIm.value;
         out.sErr.re[idx] = sRe.err;
