@@ -102,6 +102,8 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
   const config = initialConfiguration(opts.initial, qubits);
   const noise = opts.noise ?? NO_NOISE;
   checkStateFits(qubits, evolutionArrays(opts.evolution), opts.evolution === 'exact' ? 'exact evolution' : 'Trotter simulation');
+  // Before any folder or thread exists: a refusal leaves nothing behind.
+  const recorder = opts.krylovMatrices ? new KrylovMatrixRecorder(qubits, opts.steps, evolutionArrays(opts.evolution)) : null;
   await mkdir(opts.out, { recursive: true }).catch((e: NodeJS.ErrnoException) => {
     throw new BitspanError('output-unwritable', `cannot create the output folder (${e.code ?? String(e)})`, 'check the path and permissions', { file: opts.out });
   });
@@ -110,7 +112,6 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
   const shared = threads > 1;
   const operator = fullSpaceOperator(h, qubits, shared);
   const kernels: SimKernels = shared ? await WorkerKernels.start(operator, threads) : new LocalKernels(operator);
-  const recorder = opts.krylovMatrices ? new KrylovMatrixRecorder(qubits, opts.steps, evolutionArrays(opts.evolution)) : null;
   const psi = createState(qubits, shared);
   psi.re[config] = 1;
   const report: SimulateReport = {

@@ -6,7 +6,12 @@ import { KrylovMatrixRecorder } from '../../src/sim/krylovMatrixRecorder.js';
 import { readKrylovMatrices } from '../../src/io/krylovMatrices.js';
 import type { ComplexMatrix } from '../../src/solvers/complexMatrix.js';
 import { BitspanError } from '../../src/errors.js';
-import { closeTo, heisenbergKrylov, runCli, tempDir, writeFiles } from '../helpers.js';
+import { fullSpaceOperator } from '../../src/sim/fullSpaceOperator.js';
+import { LocalKernels } from '../../src/sim/simKernels.js';
+import { WorkerKernels } from '../../src/sim/workerKernels.js';
+import { createState } from '../../src/sim/stateVector.js';
+import { closeTo, denseFromPauliSum, heisenbergKrylov, runCli, tempDir, writeFiles } from '../helpers.js';
+import { randomPauliSum, randomState } from './simHelpers.js';
 
 // Open Heisenberg chain Σ (XX + YY + ZZ) on 4 sites, the Hamiltonian of `heisenbergKrylov`.
 const CHAIN4 = 'qubits 4\n' + [0, 1, 2].map((q) => ['X', 'Y', 'Z'].map((p) => `1 ${p}${q} ${p}${q + 1}\n`).join('')).join('');
@@ -120,6 +125,71 @@ describe('KrylovMatrixRecorder', () => {
     const r = await runCli(['simulate', '--hamiltonian', f['h.txt']!, '--initial', NEEL, '--dt', '0.3', '--steps', '2', '--shots', '10', '--out', join(dir, 'o'), '--matrix-shots', '100', '--json']);
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/--krylov-matrices/);
+  });
+
+  it('KrylovMatrixRecorder.add on a complex Pauli sum matches ψ_j†Hψ_k from a dense Kronecker-product H, on one thread and on a worker pool', async () => {
+    const n = 6;
+    const r = 4;
+    const h = randomPauliSum(n, 12, 21, true);
+    // Reference: H built term by term from 2×2 Pauli matrices (tests/helpers.ts, textbook definition).
+    const dense = denseFromPauliSum(h, n);
+    const states = Array.from({ length: r }, (_, k) => randomState(n, 100 + k));
+    const local = new KrylovMatrixRecorder(n, r);
+    const kernels = new LocalKernels(fullSpaceOperator(h, n));
+    for (const psi of states) local.add(psi, kernels);
+    const got = local.result();
+    const dim = 2 ** n;
+    for (let j = 0; j < r; j++) {
+      for (let k = j; k < r; k++) {
+        let hr = 0;
+        let hi = 0;
+        let sr = 0;
+        let si = 0;
+        const a = states[j]!;
+        const b = states[k]!;
+        for (let x = 0; x < dim; x++) {
+          // (Hψ_k)_x, then conj(ψ_j)_x times it.
+          let vr = 0;
+          let vi = 0;
+          for (let y = 0; y < dim; y++) {
+            const mr = dense.re[x * dim + y]!;
+            const mi = dense.im[x * dim + y]!;
+            vr += mr * b.re[y]! - mi * b.im[y]!;
+            vi += mr * b.im[y]! + mi * b.re[y]!;
+          }
+          hr += a.re[x]! * vr + a.im[x]! * vi;
+          hi += a.re[x]! * vi - a.im[x]! * vr;
+          sr += a.re[x]! * b.re[x]! + a.im[x]! * b.im[x]!;
+          si += a.re[x]! * b.im[x]! - a.im[x]! * b.re[x]!;
+        }
+        closeTo(got.h.re[j * r + k]!, hr, 1e-12, `Re H~[${j}][${k}]`);
+        closeTo(got.h.im[j * r + k]!, j === k ? 0 : hi, 1e-12, `Im H~[${j}][${k}]`);
+        closeTo(got.s.re[j * r + k]!, sr, 1e-12, `Re S[${j}][${k}]`);
+        closeTo(got.s.im[j * r + k]!, j === k ? 0 : si, 1e-12, `Im S[${j}][${k}]`);
+        // A Hermitian H has a real diagonal ⟨ψ|H|ψ⟩ (common practice).
+        if (j === k) expect(Math.abs(hi)).toBeLessThan(1e-12);
+      }
+    }
+    // The worker-pool kernels act on shared buffers; the recorder follows the state's kind.
+    const op = fullSpaceOperator(h, n, true);
+    const pool = await WorkerKernels.start(op, 2);
+    try {
+      const shared = new KrylovMatrixRecorder(n, r);
+      for (const psi of states) {
+        const c = createState(n, true);
+        c.re.set(psi.re);
+        c.im.set(psi.im);
+        shared.add(c, pool);
+      }
+      const viaPool = shared.result();
+      for (let i = 0; i < r * r; i++) {
+        closeTo(viaPool.h.re[i]!, got.h.re[i]!, 1e-12, 'pool Re H~');
+        closeTo(viaPool.h.im[i]!, got.h.im[i]!, 1e-12, 'pool Im H~');
+        expect(viaPool.s.re[i]).toBe(got.s.re[i]);
+      }
+    } finally {
+      pool.close();
+    }
   });
 
   it('KrylovMatrixRecorder refuses to keep states that cannot fit in memory with too-large', () => {
