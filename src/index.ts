@@ -112,7 +112,11 @@ export { evolveStates, evolutionArrays, type EvolutionMethod, type EvolutionOpti
 export { initialConfiguration, NAMED_STATES } from './sim/initialState.js';
 export { sampleDump, sampleShots, corruptShots, countShots, timeSeed, NO_NOISE, type ShotNoise, type Dump } from './sim/sampleDump.js';
 
-export { simulate, dumpCsv, type SimulateOptions, type SimulateReport } from './pipeline/simulate.js';
+export { simulate, dumpCsv, noisyMatricesPath, type SimulateOptions, type SimulateReport } from './pipeline/simulate.js';
+export { KrylovMatrixRecorder, type SimulatedKrylovMatrices } from './sim/krylovMatrixRecorder.js';
+export { hadamardTestNoise, type HadamardTestNoiseOptions, type NoisyKrylovMatrices } from './sim/hadamardTestNoise.js';
+export { krylovMatricesJson, type KrylovMatricesDocument } from './io/krylovMatricesJson.js';
+export { binomial } from './util/binomial.js';
 export { exact, exactMemoryEstimate, type ExactOptions, type ExactReport, type ExactOutcome, type EnumeratedSamples } from './pipeline/exact.js';
 export { runDemo, readDemoManifest, type DemoOptions, type DemoReport, type DemoRow, type DemoManifest } from './pipeline/demo.js';
 export { DEMO_SCENARIO, type DemoScenario } from './pipeline/demoScenario.js';

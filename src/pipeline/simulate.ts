@@ -1,13 +1,16 @@
 import { mkdir } from 'node:fs/promises';
-import { join } from 'node:path';
+import { extname, join } from 'node:path';
 import { BitspanError } from '../errors.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
+import { krylovMatricesJson } from '../io/krylovMatricesJson.js';
+import { hadamardTestNoise } from '../sim/hadamardTestNoise.js';
+import { KrylovMatrixRecorder } from '../sim/krylovMatrixRecorder.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
 import { highestQubit } from '../operators/pauliSum.js';
 import { evolutionArrays, evolveStates, type EvolutionMethod, type EvolvedState } from '../sim/evolveStates.js';
 import { LocalKernels, type SimKernels } from '../sim/simKernels.js';
 import { initialConfiguration } from '../sim/initialState.js';
-import { NO_NOISE, sampleDump, type Dump, type ShotNoise } from '../sim/sampleDump.js';
+import { NO_NOISE, sampleDump, timeSeed, type Dump, type ShotNoise } from '../sim/sampleDump.js';
 import { checkStateFits, createState, MAX_SIM_QUBITS } from '../sim/stateVector.js';
 import { fullSpaceOperator } from '../sim/fullSpaceOperator.js';
 import { WorkerKernels } from '../sim/workerKernels.js';
@@ -29,6 +32,10 @@ export interface SimulateOptions {
   out: string;
   /** Also report ⟨H⟩ and its spread for every state. */
   energy?: boolean;
+  /** Also write the exact H̃ and S of the simulated states to this JSON file (`krylov --matrices` format). */
+  krylovMatrices?: string;
+  /** With `krylovMatrices`: also write a Hadamard-test estimate from this many shots per part to `noisyMatricesPath(file)`. */
+  matrixShots?: number;
   /** Threads for the state-vector kernels (this one and workers); 1 runs everything here. */
   threads?: number;
   /**
@@ -52,7 +59,18 @@ export interface SimulateReport {
   noise: ShotNoise;
   dumps: Array<{ file: string; time: number; distinct: number; energy?: number; spread?: number }>;
   timings: { evolve: number; sample: number; write: number; total: number };
+  /** With `krylovMatrices`: where H̃ and S went, and how the noisy copy was made. */
+  krylovMatrices?: { file: string; noisyFile: string | null; matrixShots: number | null; pauliNorm: number; noiseSeed: number | null };
 }
+
+/** Where the noisy Krylov matrices go: `.noisy` before the extension (`k.json` → `k.noisy.json`). */
+export function noisyMatricesPath(file: string): string {
+  const ext = extname(file);
+  return ext ? file.slice(0, -ext.length) + '.noisy' + ext : file + '.noisy';
+}
+
+/** Stream index of the Hadamard-test noise: apart from every dump's stream (k ≥ 0). */
+const MATRIX_NOISE_STREAM = -2;
 
 /** Registers below this size run on one thread: waking workers would cost more than it saves. */
 const POOL_MIN_QUBITS = 14;
@@ -84,6 +102,8 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
   const config = initialConfiguration(opts.initial, qubits);
   const noise = opts.noise ?? NO_NOISE;
   checkStateFits(qubits, evolutionArrays(opts.evolution), opts.evolution === 'exact' ? 'exact evolution' : 'Trotter simulation');
+  // Before any folder or thread exists: a refusal leaves nothing behind.
+  const recorder = opts.krylovMatrices ? new KrylovMatrixRecorder(qubits, opts.steps, evolutionArrays(opts.evolution)) : null;
   await mkdir(opts.out, { recursive: true }).catch((e: NodeJS.ErrnoException) => {
     throw new BitspanError('output-unwritable', `cannot create the output folder (${e.code ?? String(e)})`, 'check the path and permissions', { file: opts.out });
   });
@@ -120,6 +140,7 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
   });
   try {
     for (const s of evolution) {
+      recorder?.add(s.state, kernels);
       opts.onState?.(s, kernels);
       const t1 = performance.now();
       report.timings.evolve += (t1 - mark) / 1000;
@@ -141,6 +162,22 @@ export async function simulate(opts: SimulateOptions): Promise<SimulateReport> {
     }
   } finally {
     kernels.close();
+  }
+  if (recorder && opts.krylovMatrices) {
+    const exact = recorder.result();
+    // λ = Σ|c| over all terms and the constant: the 1-norm that bounds ‖H‖ (see hadamardTestNoise).
+    const pauliNorm = Math.abs(h.constant) + h.terms.reduce((a, t) => a + Math.abs(t.coeff), 0);
+    const info = { source: 'bitspan simulate', times: report.dumps.map((d) => d.time), evolution: report.evolution.method, initial: report.initial.bitstring, pauliNorm };
+    await writeFileAtomic(opts.krylovMatrices, krylovMatricesJson({ ...exact, info: { ...info, matrixShots: null } }));
+    let noisyFile: string | null = null;
+    let noiseSeed: number | null = null;
+    if (opts.matrixShots) {
+      noisyFile = noisyMatricesPath(opts.krylovMatrices);
+      noiseSeed = timeSeed(opts.seed, MATRIX_NOISE_STREAM);
+      const noisy = hadamardTestNoise(exact, { shots: opts.matrixShots, scale: pauliNorm, seed: noiseSeed });
+      await writeFileAtomic(noisyFile, krylovMatricesJson({ ...noisy, info: { ...info, matrixShots: opts.matrixShots, seed: opts.seed } }));
+    }
+    report.krylovMatrices = { file: opts.krylovMatrices, noisyFile, matrixShots: opts.matrixShots ?? null, pauliNorm, noiseSeed };
   }
   report.timings.total = (performance.now() - t0) / 1000;
   await writeFileAtomic(join(opts.out, 'simulate.json'), JSON.stringify(report, null, 2) + '\n');

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { simulate, dumpCsv } from '../../src/pipeline/simulate.js';
+import { simulate, dumpCsv, noisyMatricesPath } from '../../src/pipeline/simulate.js';
 import { runCli, tempDir, writeFiles } from '../helpers.js';
 
 const RING6 = 'qubits 6\n' + [0, 1, 2, 3, 4, 5].map((i) => { const j = (i + 1) % 6; return `0.25 X${Math.min(i, j)} X${Math.max(i, j)}\n0.25 Y${Math.min(i, j)} Y${Math.max(i, j)}\n0.25 Z${Math.min(i, j)} Z${Math.max(i, j)}\n`; }).join('');
@@ -96,5 +96,26 @@ describe('dumpCsv', () => {
   it('dumpCsv lists the most frequent configuration first, ties by bitstring', () => {
     const text = dumpCsv({ configs: Uint32Array.of(1, 2, 5), counts: Float64Array.of(3, 7, 3) }, 4);
     expect(text).toBe('bitstring,count\n0010,7\n0001,3\n0101,3\n');
+  });
+  it('simulate with --krylov-matrices and --matrix-shots writes the same dumps as without, and reports the files', async () => {
+    const dir = tempDir();
+    const f = writeFiles(dir, { 'h.txt': RING6 });
+    const base = ['simulate', '--hamiltonian', f['h.txt']!, '--initial', 'neel', '--dt', '0.4', '--steps', '3', '--shots', '400', '--seed', '8'];
+    expect((await runCli([...base, '--out', join(dir, 'a')])).status).toBe(0);
+    const withMatrices = await runCli([...base, '--out', join(dir, 'b'), '--krylov-matrices', join(dir, 'k.json'), '--matrix-shots', '500', '--json']);
+    expect(withMatrices.status, withMatrices.stderr).toBe(0);
+    // The matrix noise has a stream of its own, so the dumps are byte for byte the same.
+    for (let k = 0; k < 3; k++) expect(readFileSync(join(dir, 'b', `t${k}.csv`), 'utf8')).toBe(readFileSync(join(dir, 'a', `t${k}.csv`), 'utf8'));
+    const report = JSON.parse(withMatrices.stdout);
+    expect(report.krylovMatrices.file).toBe(join(dir, 'k.json'));
+    expect(report.krylovMatrices.noisyFile).toBe(join(dir, 'k.noisy.json'));
+    expect(report.krylovMatrices.matrixShots).toBe(500);
+    // λ = Σ|c| = 18 terms × 0.25 for the ring.
+    expect(report.krylovMatrices.pauliNorm).toBeCloseTo(4.5, 12);
+    expect(existsSync(join(dir, 'k.noisy.json'))).toBe(true);
+  });
+  it('noisyMatricesPath puts .noisy before the extension, or at the end when there is none', () => {
+    expect(noisyMatricesPath('out/krylov.json')).toBe('out/krylov.noisy.json');
+    expect(noisyMatricesPath('out.d/krylov')).toBe('out.d/krylov.noisy');
   });
 });

@@ -21,6 +21,8 @@ interface SimulateFlags {
   seed: number;
   out: string;
   energy?: boolean;
+  krylovMatrices?: string;
+  matrixShots?: number;
   threads: number;
   json?: boolean;
 }
@@ -48,6 +50,10 @@ function simulateSummary(r: SimulateReport, out: string): string {
     const e = d.energy !== undefined ? `   <H> = ${d.energy.toFixed(10)} +- ${d.spread!.toExponential(3)} (spread of H in the full ${r.qubits}-qubit state)` : '';
     lines.push(`  t = ${d.time.toPrecision(6)}: ${d.file} (${d.distinct} distinct)${e}`);
   }
+  if (r.krylovMatrices) {
+    const k = r.krylovMatrices;
+    lines.push(`Krylov matrices of the same ${r.dumps.length} states: ${k.file} (exact)${k.noisyFile ? `, ${k.noisyFile} (${k.matrixShots} Hadamard-test shots per part, Pauli 1-norm ${k.pauliNorm})` : ''}`);
+  }
   lines.push(`wrote ${r.dumps.length} dumps and simulate.json to ${out}; timings: evolve ${r.timings.evolve.toFixed(3)}s, sample ${r.timings.sample.toFixed(3)}s, write ${r.timings.write.toFixed(3)}s`);
   return lines.join('\n') + '\n';
 }
@@ -68,9 +74,12 @@ export function simulateCommand(io: CliIo): Command {
     .option('--seed <n>', 'seed of the sampling and noise streams', nonNegativeInt('--seed'), 1)
     .requiredOption('--out <dir>', 'folder for t0.csv ... t<r-1>.csv and simulate.json (created if missing)')
     .option('--energy', 'also report <H> and its spread ||H psi - <H> psi|| for every state')
+    .option('--krylov-matrices <file>', 'also write the exact H~ and S of the simulated states as JSON (the format of krylov --matrices)')
+    .option('--matrix-shots <n>', 'with --krylov-matrices: also write FILE with .noisy before the extension, estimated from n Hadamard-test shots per element part', positiveInt('--matrix-shots'))
     .option('--threads <n>', 'threads for the state-vector kernels (default: all cores; small registers use one)', positiveInt('--threads'), availableParallelism())
     .option('--json', 'print the report as one JSON object on stdout')
     .action(async (f: SimulateFlags) => {
+      if (f.matrixShots !== undefined && !f.krylovMatrices) throw new BitspanError('bad-argument', '--matrix-shots needs --krylov-matrices FILE', 'add --krylov-matrices krylov.json');
       const noise: ShotNoise = { p01: f.readoutError?.[0] ?? 0, p10: f.readoutError?.[1] ?? 0, flip: f.flipNoise ?? 0 };
       const bar = io.stderrIsTTY && !f.json ? new cliProgress.SingleBar({ stream: process.stderr, format: 'simulate [{bar}] {percentage}% | {dumps}/{total} dumps | {duration_formatted} (eta {eta_formatted})', hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
       bar?.start(f.steps, 0, { dumps: 0 });
@@ -87,6 +96,8 @@ export function simulateCommand(io: CliIo): Command {
           seed: f.seed,
           out: f.out,
           energy: f.energy,
+          krylovMatrices: f.krylovMatrices,
+          matrixShots: f.matrixShots,
           threads: f.threads,
           onProgress: (done) => bar?.update(done, { dumps: Math.floor(done) }),
         });
