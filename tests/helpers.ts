@@ -4,8 +4,20 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../src/cli/main.js';
+import { BitspanError } from '../src/errors.js';
 import { complexMatrix, type ComplexMatrix } from '../src/solvers/complexMatrix.js';
 import { seededNormal } from '../src/util/normal.js';
+
+/** The BitspanError code a promise rejects with, or 'no error'. */
+export async function codeOf(p: Promise<unknown>): Promise<string> {
+  try {
+    await p;
+  } catch (e) {
+    if (e instanceof BitspanError) return e.code;
+    throw e;
+  }
+  return 'no error';
+}
 
 /** Assert |actual − expected| ≤ tol with a readable message. */
 export function closeTo(actual: number, expected: number, tol: number, what = 'value'): void {

@@ -49,17 +49,7 @@ export function lookupConfig(
   query: Uint32Array,
   qOffset: number,
 ): number {
-  const mask = slots.length - 1;
-  let s = hashConfig(query, qOffset, nWords) & mask;
-  for (;;) {
-    const idx = slots[s]!;
-    if (idx === -1) return -1;
-    const base = idx * nWords;
-    let k = 0;
-    while (k < nWords && states[base + k] === query[qOffset + k]) k++;
-    if (k === nWords) return idx;
-    s = (s + 1) & mask;
-  }
+  return lookupConfigHashed(states, slots, nWords, query, qOffset, hashConfig(query, qOffset, nWords));
 }
 
 /**

@@ -1,12 +1,16 @@
-import { Resvg } from '@resvg/resvg-js';
-import { parse, View } from 'vega';
-import { compile, type TopLevelSpec } from 'vega-lite';
+import { createRequire } from 'node:module';
+import type { TopLevelSpec } from 'vega-lite';
+
+// vega, vega-lite and resvg take about a second to load: load them only when a plot is drawn, so
+// every other command (and each batch job) starts fast.
+const requireCjs = createRequire(import.meta.url);
 
 /** Font every plot asks for; DejaVu Sans ships with most Linux systems, else resvg falls back. */
 export const PLOT_FONT = 'DejaVu Sans';
 
 /** Render a vega-lite spec to an SVG string (vega-lite → vega → headless vega View). */
 export async function renderSvg(spec: TopLevelSpec): Promise<string> {
+  const [{ parse, View }, { compile }] = await Promise.all([import('vega'), import('vega-lite')]);
   const view = new View(parse(compile(spec).spec), { renderer: 'none' });
   let svg: string;
   try {
@@ -25,6 +29,7 @@ export async function renderSvg(spec: TopLevelSpec): Promise<string> {
 
 /** Rasterise an SVG to PNG with resvg at `scale`× on a white background, using system fonts. */
 export function svgToPng(svg: string, scale = 2): Uint8Array {
+  const { Resvg } = requireCjs('@resvg/resvg-js') as typeof import('@resvg/resvg-js');
   const resvg = new Resvg(svg, {
     fitTo: { mode: 'zoom', value: scale },
     background: 'white',

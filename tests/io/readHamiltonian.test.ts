@@ -2,17 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { readHamiltonian } from '../../src/io/readHamiltonian.js';
 import { formatPauliOps } from '../../src/operators/pauliSum.js';
 import { BitspanError } from '../../src/errors.js';
-import { tempDir, writeFiles } from '../helpers.js';
+import { codeOf, tempDir, writeFiles } from '../helpers.js';
 
-async function codeOf(p: Promise<unknown>): Promise<string> {
-  try {
-    await p;
-  } catch (e) {
-    if (e instanceof BitspanError) return e.code;
-    throw e;
-  }
-  return 'no error';
-}
 
 describe('readHamiltonian', () => {
   it('readHamiltonian parses text and JSON forms and combines like terms', async () => {

@@ -6,17 +6,8 @@ import { readSamples } from '../../src/io/readSamples.js';
 import { BitstringParser } from '../../src/io/bitstringParser.js';
 import { formatBitstring } from '../../src/bits/packed.js';
 import { BitspanError } from '../../src/errors.js';
-import { tempDir, writeFiles } from '../helpers.js';
+import { codeOf, tempDir, writeFiles } from '../helpers.js';
 
-async function codeOf(p: Promise<unknown>): Promise<string> {
-  try {
-    await p;
-  } catch (e) {
-    if (e instanceof BitspanError) return e.code;
-    throw e;
-  }
-  return 'no error';
-}
 
 describe('readSamples', () => {
   it('readSamples reads CSV, JSON and text dumps into the same deduplicated counts', async () => {
