@@ -140,7 +140,11 @@ export function buildUpperRows(basis: Basis, groups: FlipGroups, test: SectorFli
     const rowStart = nnz;
     let dr = groups.constant;
     let di = 0;
+    const aOff = r * basis.nWords;
     for (let g = 0; g < groups.count; g++) {
+      // Cheapest rejections first, before the call: about half the flips point below the diagonal.
+      const tw = test.topWord[g]!;
+      if (tw >= 0 && (test.groupAllowed[g] === 0 || (basis.states[aOff + tw]! & test.topBit[g]!) !== 0)) continue;
       const col = upperEntry(basis, groups, test, r, g, b, v);
       if (col < 0) continue;
       if (col === r) {
@@ -185,7 +189,10 @@ export function applyUpperRows(basis: Basis, groups: FlipGroups, test: SectorFli
   const v = new Float64Array(2);
   for (let r = r0; r < r1; r++) {
     let dr = groups.constant;
+    const aOff = r * basis.nWords;
     for (let g = 0; g < groups.count; g++) {
+      const tw = test.topWord[g]!;
+      if (tw >= 0 && (test.groupAllowed[g] === 0 || (basis.states[aOff + tw]! & test.topBit[g]!) !== 0)) continue;
       const c = upperEntry(basis, groups, test, r, g, b, v);
       if (c < 0) continue;
       if (c === r) {
