@@ -52,7 +52,7 @@ export function solveSummary(r: SolveReport): string {
     for (const t of r.groundState.top) lines.push(`  ${t.bitstring}  ${t.probability.toFixed(6)}`);
   }
   lines.push(...analysisLines(r));
-  const tm = Object.entries(r.timings).map(([k, v]) => `${k} ${v.toFixed(3)}s`).join(', ');
+  const tm = timingsText(r.timings);
   lines.push(`timings: ${tm}`);
   return lines.join('\n') + '\n';
 }
@@ -107,4 +107,11 @@ export function analysisLines(r: SolveReport): string[] {
     );
   }
   return lines;
+}
+
+/** `read 0.120s, …, peak memory 364 MiB`: times in seconds, the process peak in MiB. */
+export function timingsText(timings: Record<string, number>): string {
+  return Object.entries(timings)
+    .map(([k, v]) => (k === 'peakRSSMB' ? `peak memory ${v.toFixed(0)} MiB` : `${k} ${v.toFixed(3)}s`))
+    .join(', ');
 }

@@ -1,4 +1,5 @@
 import type { SweepReport } from '../pipeline/sweep.js';
+import { timingsText } from './summary.js';
 
 const sci = (x: number | undefined): string => (x === undefined ? '-' : x.toExponential(3));
 
@@ -24,6 +25,6 @@ export function sweepSummary(r: SweepReport, written: string[]): string {
   const gt = r.sampling.total;
   lines.push(`samples: ${gt.shots} shots, ${gt.distinct} distinct, Good–Turing unseen mass ${gt.goodTuring.toFixed(4)}`);
   if (written.length) lines.push(`wrote: ${written.join(', ')}`);
-  lines.push(`timings: ${Object.entries(r.timings).map(([k, v]) => `${k} ${v.toFixed(3)}s`).join(', ')}`);
+  lines.push(`timings: ${timingsText(r.timings)}`);
   return lines.join('\n') + '\n';
 }

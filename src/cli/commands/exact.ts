@@ -6,7 +6,7 @@ import type { CliIo } from '../io.js';
 import { collect, oneOf, positiveInt } from '../parse.js';
 import { type SolverFlags, addSolverOptions } from '../sectorOptions.js';
 import { parseWeightSpec } from '../../sectors/sector.js';
-import { energyLine } from '../summary.js';
+import { energyLine, timingsText } from '../summary.js';
 
 interface ExactFlags extends SolverFlags {
   hamiltonian: string;
@@ -32,7 +32,7 @@ function exactSummary(r: ExactReport): string {
     lines.push('ground state, most probable configurations:');
     for (const t of r.groundState.top) lines.push(`  ${t.bitstring}  ${t.probability.toFixed(6)}`);
   }
-  lines.push(`timings: ${Object.entries(r.timings).map(([k, v]) => `${k} ${v.toFixed(3)}s`).join(', ')}`);
+  lines.push(`timings: ${timingsText(r.timings)}`);
   return lines.join('\n') + '\n';
 }
 
