@@ -22,17 +22,7 @@ export async function readSamplesCsv(file: string, parser: BitstringParser, sink
       const cells = rec.record;
       const line = rec.info.lines;
       if (bitCol < 0) {
-        const names = cells.map((c) => c.trim().toLowerCase());
-        bitCol = findColumn(names, 'bitstring', file, line);
-        countCol = findColumn(names, 'count', file, line);
-        if (bitCol < 0) {
-          throw new BitspanError(
-            'bad-samples',
-            `header has no 'bitstring' column (found: ${names.slice(0, 8).join(', ') || 'nothing'})`,
-            "the first row must be a header naming a 'bitstring' column and optionally a 'count' column",
-            { file, line },
-          );
-        }
+        ({ bitCol, countCol } = headerColumns(cells, file, line));
         width = cells.length;
         continue;
       }
@@ -50,6 +40,22 @@ export async function readSamplesCsv(file: string, parser: BitstringParser, sink
   }
   if (bitCol < 0) throw new BitspanError('file-empty', 'sample file is empty', "give a CSV with a 'bitstring' header and at least one row", { file });
   return rows;
+}
+
+/** Columns of a sample CSV header: `bitstring` (required) and `count` (optional), each at most once. */
+export function headerColumns(cells: string[], file: string, line: number): { bitCol: number; countCol: number } {
+  const names = cells.map((c) => c.trim().toLowerCase());
+  const bitCol = findColumn(names, 'bitstring', file, line);
+  const countCol = findColumn(names, 'count', file, line);
+  if (bitCol < 0) {
+    throw new BitspanError(
+      'bad-samples',
+      `header has no 'bitstring' column (found: ${names.slice(0, 8).join(', ') || 'nothing'})`,
+      "the first row must be a header naming a 'bitstring' column and optionally a 'count' column",
+      { file, line },
+    );
+  }
+  return { bitCol, countCol };
 }
 
 function findColumn(names: string[], want: string, file: string, line: number): number {

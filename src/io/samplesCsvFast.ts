@@ -3,6 +3,7 @@ import { BitspanError } from '../errors.js';
 import type { BitstringParser } from './bitstringParser.js';
 import { MAX_LINE_CHARS, parseCount } from './lines.js';
 import type { SampleSink } from './sampleSink.js';
+import { headerColumns } from './samplesCsv.js';
 
 /** Thrown when the file needs the full CSV grammar (quoted fields); the caller re-reads with csv-parse. */
 export class NeedsFullCsv extends Error {}
@@ -29,25 +30,9 @@ export async function readSamplesCsvFast(file: string, parser: BitstringParser, 
     if (!headerDone) {
       // Lone CR line ends (old Mac files): csv-parse detects the record delimiter, this path does not.
       if (buf.subarray(start, end).indexOf(13) >= 0) throw new NeedsFullCsv();
-      const names = buf.toString('utf8', start, end).split(',').map((c) => c.trim().toLowerCase());
-      const find = (want: string): number => {
-        const first = names.indexOf(want);
-        if (first >= 0 && names.indexOf(want, first + 1) >= 0) {
-          throw new BitspanError('bad-samples', `header names the '${want}' column twice`, 'rename or remove the duplicate column', { file, line });
-        }
-        return first;
-      };
-      bitCol = find('bitstring');
-      countCol = find('count');
-      if (bitCol < 0) {
-        throw new BitspanError(
-          'bad-samples',
-          `header has no 'bitstring' column (found: ${names.slice(0, 8).join(', ') || 'nothing'})`,
-          "the first row must be a header naming a 'bitstring' column and optionally a 'count' column",
-          { file, line },
-        );
-      }
-      width = names.length;
+      const cells = buf.toString('utf8', start, end).split(',');
+      ({ bitCol, countCol } = headerColumns(cells, file, line));
+      width = cells.length;
       headerDone = true;
       return;
     }

@@ -11,7 +11,7 @@ import { compileSector, describeSector, type Sector } from '../sectors/sector.js
 import { enumerateSector, sectorDimension } from '../sectors/enumerateSector.js';
 import type { SubspaceReport } from '../sectors/selectSubspace.js';
 import { LANCZOS_DEFAULTS, type LanczosResult } from '../solvers/lanczos.js';
-import { projectAndSolve, sectorReport, topConfigurations, type SolveReport } from './solve.js';
+import { hamiltonianReport, projectAndSolve, projectionReport, sectorReport, topConfigurations, type SolveReport } from './solve.js';
 
 /** Options of `exact`: a Hamiltonian file and the sector whose every configuration is kept. */
 export interface ExactOptions {
@@ -114,7 +114,7 @@ export async function exact(opts: ExactOptions): Promise<ExactOutcome> {
   const tol = opts.tol ?? LANCZOS_DEFAULTS.tol;
   const seed = opts.seed ?? LANCZOS_DEFAULTS.seed;
   const projection = await projectAndSolve(hamiltonian, basis, sector, { eigs, tol, seed, threads, memoryBytes: opts.memoryBytes, matrixFree: opts.matrixFree });
-  const { matrix, eigen, plan } = projection;
+  const { matrix, eigen } = projection;
   timings.build = projection.timings.build;
   timings.solve = projection.timings.solve;
   timings.total = (performance.now() - t0) / 1000;
@@ -123,18 +123,8 @@ export async function exact(opts: ExactOptions): Promise<ExactOutcome> {
     command: 'exact',
     qubits,
     dimension: basis.dim,
-    nonzeros: projection.nonzeros,
-    complex: projection.complex,
-    storage: plan.storage,
-    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason },
-    energies: Array.from(eigen.values),
-    residuals: Array.from(eigen.residuals),
-    converged: eigen.converged,
-    iterations: eigen.iterations,
-    matvecs: eigen.matvecs,
-    tolerance: tol,
-    seed,
-    hamiltonian: { file: opts.hamiltonian, terms: hamiltonian.terms.length, constant: hamiltonian.constant, qubits: hamiltonian.qubits },
+    ...projectionReport(projection, tol, seed),
+    hamiltonian: hamiltonianReport(opts.hamiltonian, hamiltonian),
     samples: {
       enumerated: true,
       shots: 0,

@@ -148,6 +148,29 @@ export function matrixOperator(m: SparseMatrix): LinearOperator {
   return { dim: m.dim, complex: m.complex, apply: (x, y) => csrApplyRows(m, x, y) };
 }
 
+/** The report keys that describe a projection and its eigenpairs (shared by solve and exact). */
+export function projectionReport(projection: Projection, tol: number, seed: number): Pick<SolveReport, 'nonzeros' | 'complex' | 'storage' | 'memory' | 'energies' | 'residuals' | 'converged' | 'iterations' | 'matvecs' | 'tolerance' | 'seed'> {
+  const { eigen, plan } = projection;
+  return {
+    nonzeros: projection.nonzeros,
+    complex: projection.complex,
+    storage: plan.storage,
+    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason },
+    energies: Array.from(eigen.values),
+    residuals: Array.from(eigen.residuals),
+    converged: eigen.converged,
+    iterations: eigen.iterations,
+    matvecs: eigen.matvecs,
+    tolerance: tol,
+    seed,
+  };
+}
+
+/** The `hamiltonian` report entry of a Pauli sum. */
+export function hamiltonianReport(file: string, h: PauliSum): SolveReport['hamiltonian'] {
+  return { file, terms: h.terms.length, constant: h.constant, qubits: h.qubits };
+}
+
 /** Check that the Hamiltonian and the samples describe the same register. */
 export function checkRegister(h: PauliSum, hamiltonianFile: string, sampleQubits: number, sampleFile: string): void {
   const top = highestQubit(h);
@@ -394,25 +417,15 @@ export async function solveBasis(
   const start = opts.start ? stateOnBasis(opts.start.state, basis, complex) : null;
   const threads = opts.threads ?? defaultThreads();
   const projection = await projectAndSolve(hamiltonian, basis, opts.sector, { ...opts, tol, seed, threads, start: start ?? undefined });
-  const { matrix, eigen, plan } = projection;
+  const { matrix, eigen } = projection;
   timings.build = projection.timings.build;
   timings.solve = projection.timings.solve;
   const result: SolveReport = {
     command: 'solve',
     qubits: basis.qubits,
     dimension: basis.dim,
-    nonzeros: projection.nonzeros,
-    complex: projection.complex,
-    storage: plan.storage,
-    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason },
-    energies: Array.from(eigen.values),
-    residuals: Array.from(eigen.residuals),
-    converged: eigen.converged,
-    iterations: eigen.iterations,
-    matvecs: eigen.matvecs,
-    tolerance: tol,
-    seed,
-    hamiltonian: { file: opts.hamiltonianFile, terms: hamiltonian.terms.length, constant: hamiltonian.constant, qubits: hamiltonian.qubits },
+    ...projectionReport(projection, tol, seed),
+    hamiltonian: hamiltonianReport(opts.hamiltonianFile, hamiltonian),
     samples: subspace,
     sector: sectorReport(opts.sector, basis.qubits, opts.minCount, opts.maxDim),
     threads,
