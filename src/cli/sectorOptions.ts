@@ -62,3 +62,34 @@ export interface SolverFlags {
 function positiveIntOrZero(v: string): number {
   return /^\d+$/.test(v) ? Number(v) : positiveInt('--seed')(v);
 }
+
+/** The sample, sector and solver options every diagonalising command passes on to the library. */
+export function sampleAndSolverOptions(f: SampleFlags & SolverFlags): {
+  sector: Sector;
+  minCount?: number;
+  maxDim?: number;
+  eigs: number;
+  tol: number;
+  seed: number;
+  qubits?: number;
+  qubit0: Qubit0;
+  format: SampleFormat;
+  threads?: number;
+  memoryBytes?: number;
+  matrixFree?: boolean;
+} {
+  return {
+    sector: sectorFromFlags(f),
+    minCount: f.minCount,
+    maxDim: f.maxDim,
+    eigs: f.eigs,
+    tol: f.tol,
+    seed: f.seed,
+    qubits: f.qubits,
+    qubit0: f.qubit0,
+    format: f.format,
+    threads: f.threads,
+    memoryBytes: f.memory,
+    matrixFree: f.matrixFree,
+  };
+}

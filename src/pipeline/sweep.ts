@@ -43,6 +43,9 @@ export interface SweepOptions {
   qubit0?: Qubit0;
   format?: SampleFormat;
   top?: number;
+  threads?: number;
+  memoryBytes?: number;
+  matrixFree?: boolean;
   /** Expansion applied at every point (other axes), or the selection used along the expand axis. */
   expand?: ExpandOptions;
   gap?: number;
@@ -149,7 +152,7 @@ export async function sweep(opts: SweepOptions): Promise<{ report: SweepReport; 
   timings.readSamples = (performance.now() - t) / 1000;
   checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
-  const settings = { eigs: opts.eigs, tol: opts.tol ?? LANCZOS_DEFAULTS.tol, seed: opts.seed ?? LANCZOS_DEFAULTS.seed };
+  const settings = { eigs: opts.eigs, tol: opts.tol ?? LANCZOS_DEFAULTS.tol, seed: opts.seed ?? LANCZOS_DEFAULTS.seed, threads: opts.threads, memoryBytes: opts.memoryBytes, matrixFree: opts.matrixFree };
   const analysis: AnalysisOptions = await resolveAnalysis(
     { estimate: true, gap: opts.gap, reference: opts.reference, exact: opts.exact, exactMaxDim: opts.exactMaxDim, observables: opts.observables, observe: opts.observe },
     hamiltonian,

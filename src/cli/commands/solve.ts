@@ -10,7 +10,7 @@ import type { CliIo } from '../io.js';
 import { parseElectrons } from '../../sectors/electronSector.js';
 import { positiveInt } from '../parse.js';
 import { addEstimateOptions, addExpandOptions, checkEstimateFlags, expandFromFlags, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
-import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
+import { addSampleOptions, addSolverOptions, sampleAndSolverOptions, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
 import { solveSummary } from '../summary.js';
 import { progressFor } from '../progress.js';
 
@@ -79,19 +79,8 @@ export function solveCommand(io: CliIo): Command {
         productSpace: f.productSpace,
         log: (line) => io.stderr(`bitspan: ${line}\n`),
         samples: f.samples,
-        sector: sectorFromFlags(f),
-        minCount: f.minCount,
-        maxDim: f.maxDim,
-        eigs: f.eigs,
-        tol: f.tol,
-        seed: f.seed,
-        qubits: f.qubits,
-        qubit0: f.qubit0,
-        format: f.format,
+        ...sampleAndSolverOptions(f),
         top: f.top,
-        threads: f.threads,
-        memoryBytes: f.memory,
-        matrixFree: f.matrixFree,
         onBuildProgress: (d, t) => progress.build(d, t),
         onSolveProgress: (i) => progress.solve(i),
         expand: expandFromFlags(f),

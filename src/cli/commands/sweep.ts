@@ -12,19 +12,16 @@ import { sweep, type ExtrapolateAgainst, type SubsampleMode, type SweepAxis, typ
 import type { CliIo } from '../io.js';
 import { oneOf, positiveInt } from '../parse.js';
 import { addEstimateOptions, addExpandOptions, checkEstimateFlags, expandFromFlags, numberList, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
-import { addSampleOptions, addSolverOptions, sectorFromFlags, type SampleFlags } from '../sectorOptions.js';
+import { addSampleOptions, addSolverOptions, sampleAndSolverOptions, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
 import { sweepSummary } from '../sweepSummary.js';
 
-interface SweepFlags extends SampleFlags, ExpandFlags, EstimateFlags {
+interface SweepFlags extends SampleFlags, SolverFlags, ExpandFlags, EstimateFlags {
   hamiltonian: string;
   samples: string[];
   axis: SweepAxis;
   values?: number[];
   subsample: SubsampleMode;
   extrapolate: ExtrapolateAgainst;
-  eigs: number;
-  tol: number;
-  seed: number;
   top: number;
   json?: boolean;
   out?: string;
@@ -64,15 +61,7 @@ export function sweepCommand(io: CliIo): Command {
         axis: f.axis,
         values: f.values,
         subsample: f.subsample,
-        sector: sectorFromFlags(f),
-        minCount: f.minCount,
-        maxDim: f.maxDim,
-        eigs: f.eigs,
-        tol: f.tol,
-        seed: f.seed,
-        qubits: f.qubits,
-        qubit0: f.qubit0,
-        format: f.format,
+        ...sampleAndSolverOptions(f),
         top: f.top,
         expand,
         gap: f.gap,
