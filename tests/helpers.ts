@@ -19,6 +19,17 @@ export async function codeOf(p: Promise<unknown>): Promise<string> {
   return 'no error';
 }
 
+/** The BitspanError a synchronous call throws (fails the test when it throws nothing). */
+export function errorOf(f: () => unknown): BitspanError {
+  try {
+    f();
+  } catch (e) {
+    if (e instanceof BitspanError) return e;
+    throw e;
+  }
+  throw new Error('expected a BitspanError');
+}
+
 /** Assert |actual − expected| ≤ tol with a readable message. */
 export function closeTo(actual: number, expected: number, tol: number, what = 'value'): void {
   if (!(Math.abs(actual - expected) <= tol)) {

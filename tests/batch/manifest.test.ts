@@ -7,7 +7,7 @@ import { commandCatalog } from '../../src/cli/commandCatalog.js';
 import { solveCommand } from '../../src/cli/commands/solve.js';
 import { collect as collectFlag, positiveNumber } from '../../src/cli/parse.js';
 import type { CliIo } from '../../src/cli/io.js';
-import { tempDir, writeFiles } from '../helpers.js';
+import { tempDir, writeFiles, errorOf } from '../helpers.js';
 import { ringManifest } from './fixture.js';
 
 const io: CliIo = { stdout: () => undefined, stderr: () => undefined, stderrIsTTY: false, env: {} };
@@ -28,16 +28,6 @@ function scanCommand(): Command {
 const catalog = commandCatalog(new Command('bitspan').addCommand(solveCommand(io)).addCommand(scanCommand()));
 const FILE = '/data/study/m.json';
 const parse = (doc: unknown, text = JSON.stringify(doc, null, 2)) => parseManifest(text, FILE, catalog);
-
-function errorOf(f: () => unknown): BitspanError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof BitspanError) return e;
-    throw e;
-  }
-  throw new Error('expected a BitspanError');
-}
 
 describe('parseManifest', () => {
   it('parseManifest indexes listed jobs first, then grid combinations with the first vary key slowest', () => {

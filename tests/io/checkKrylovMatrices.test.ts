@@ -3,7 +3,7 @@ import { BitspanError } from '../../src/errors.js';
 import { checkKrylovMatrices } from '../../src/io/checkKrylovMatrices.js';
 import type { KrylovMatrices } from '../../src/io/krylovMatrices.js';
 import { hermitianPart, type ComplexMatrix } from '../../src/solvers/complexMatrix.js';
-import { addHermitianNoise, heisenbergKrylov, uniformErrors } from '../helpers.js';
+import { addHermitianNoise, heisenbergKrylov, uniformErrors, errorOf as code } from '../helpers.js';
 
 const fx = await heisenbergKrylov(4, 0.3, 6);
 
@@ -13,16 +13,6 @@ function input(h: ComplexMatrix, s: ComplexMatrix, hErr: ComplexMatrix | null = 
     h, s, hErr, sErr,
     origins: { h: { file: 'h.csv', name: 'h', rowLines: lines }, s: { file: 's.csv', name: 's', rowLines: lines }, hErr: null, sErr: null },
   };
-}
-
-function code(f: () => unknown): BitspanError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof BitspanError) return e;
-    throw e;
-  }
-  throw new Error('expected a BitspanError');
 }
 
 describe('checkKrylovMatrices', () => {

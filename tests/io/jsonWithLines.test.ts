@@ -1,19 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { BitspanError } from '../../src/errors.js';
+import { errorOf } from '../helpers.js';
 import { parseJsonWithLines } from '../../src/io/jsonWithLines.js';
 
 const parse = (text: string) => parseJsonWithLines(text, 'm.json', 'bad-manifest');
-
-function errorOf(f: () => unknown): BitspanError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof BitspanError) return e;
-    throw e;
-  }
-  throw new Error('expected a BitspanError');
-}
 
 /** True when our parser's only objection is a repeated key (JSON.parse keeps the last one instead). */
 function hasDuplicateKey(text: string): boolean {
