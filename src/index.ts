@@ -44,7 +44,7 @@ export { csrApplyRows, joinRowPieces, nonzeros, toDense, type SparseMatrix, type
 export { lanczos, LANCZOS_DEFAULTS, type LanczosOptions, type LanczosResult, type LinearOperator } from './solvers/lanczos.js';
 export { symmetricEigen } from './solvers/symmetricEigen.js';
 
-export { solve, projectAndSolve, projectAndSolveSync, checkRegister, sectorReport, matrixOperator, matrixFreeOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
+export { solve, projectAndSolve, projectAndSolveSync, type SampledRunOptions, checkRegister, sectorReport, matrixOperator, matrixFreeOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
 export { solveSamples, solveBasis, exactReference, resolveAnalysis, readStartState, EXACT_MAX_DIM, type SubspaceSolveOptions, type SolveAnalysisOptions } from './pipeline/solve.js';
 export { analyzeLowest, energyError, OBSERVABLE_CAVEAT, type AnalysisOptions, type AnalysisReport, type AnalysisInput, type ReferenceEnergy, type EnergyError, type EstimateDetails, type BatchReport } from './pipeline/analyze.js';
 export { expandSubspace, expandOnce, expandsByImportance, type ExpandOptions, type ExpansionReport, type ExpansionStep, type LowestState } from './pipeline/expand.js';

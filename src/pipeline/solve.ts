@@ -26,21 +26,8 @@ import type { Fcidump } from '../io/fcidump.js';
 import type { ProductSpaceReport, RepairReport } from './solveSubspace.js';
 import { solveWithRepair, type IntegralsReport } from './solveWithRepair.js';
 
-/** Everything `solve` needs; file paths are read here, at the edge. */
-export interface SolveOptions {
-  /** Pauli-sum Hamiltonian file; exactly one of `hamiltonian` and `integrals` is given. */
-  hamiltonian?: string;
-  /** FCIDUMP file: the Hamiltonian as molecular integrals, solved in the determinant basis. */
-  integrals?: string;
-  /** Spin-up and spin-down electron counts for `integrals` (default: NELEC and MS2 of the header). */
-  electrons?: [number, number];
-  /** Repair off-sector samples instead of dropping them, for up to `repairRounds` rounds. */
-  repair?: boolean;
-  repairRounds?: number;
-  /** Close the determinant subspace under spin-up × spin-down combination (`integrals` only). */
-  productSpace?: boolean;
-  /** Progress lines (e.g. the product-space dimension before building). */
-  log?: (line: string) => void;
+/** The dumps, the sector filters and the solver settings, shared by `solve` and `sweep`. */
+export interface SampledRunOptions {
   samples: string[];
   sector?: Sector;
   minCount?: number;
@@ -56,6 +43,48 @@ export interface SolveOptions {
   threads?: number;
   memoryBytes?: number;
   matrixFree?: boolean;
+}
+
+/** Read the dumps a run names, with its register size, qubit order and format. */
+export function readRunSamples(opts: SampledRunOptions, extra: { keepOrder?: boolean } = {}): Promise<SampleSet> {
+  return readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format, ...extra });
+}
+
+/**
+ * Seconds per stage into `timings`: each `lap(name)` closes the stage begun at the previous lap;
+ * `finish()` adds the total and the process's peak memory (run-to-run varying like the times).
+ */
+export function stageClock(timings: Record<string, number>): { lap(name: string): void; finish(): void } {
+  const start = performance.now();
+  let last = start;
+  return {
+    lap(name) {
+      const now = performance.now();
+      timings[name] = (now - last) / 1000;
+      last = now;
+    },
+    finish() {
+      timings.total = (performance.now() - start) / 1000;
+      timings.peakRSSMB = process.resourceUsage().maxRSS / 1024;
+    },
+  };
+}
+
+/** Everything `solve` needs; file paths are read here, at the edge. */
+export interface SolveOptions extends SampledRunOptions {
+  /** Pauli-sum Hamiltonian file; exactly one of `hamiltonian` and `integrals` is given. */
+  hamiltonian?: string;
+  /** FCIDUMP file: the Hamiltonian as molecular integrals, solved in the determinant basis. */
+  integrals?: string;
+  /** Spin-up and spin-down electron counts for `integrals` (default: NELEC and MS2 of the header). */
+  electrons?: [number, number];
+  /** Repair off-sector samples instead of dropping them, for up to `repairRounds` rounds. */
+  repair?: boolean;
+  repairRounds?: number;
+  /** Close the determinant subspace under spin-up × spin-down combination (`integrals` only). */
+  productSpace?: boolean;
+  /** Progress lines (e.g. the product-space dimension before building). */
+  log?: (line: string) => void;
   onBuildProgress?: SolverSettings['onBuildProgress'];
   onSolveProgress?: SolverSettings['onSolveProgress'];
   /** Add the configurations H connects to the sampled subspace (N steps, within the sector) before solving. */
@@ -325,17 +354,12 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   }
   if (opts.hamiltonian === undefined) throw new BitspanError('bad-argument', 'no Hamiltonian given', 'give a Pauli sum with --hamiltonian FILE or molecular integrals with --integrals FILE.fcidump');
   const hamiltonianFile = opts.hamiltonian;
-  const t0 = performance.now();
   const timings: Record<string, number> = {};
-  const lap = (name: string, since: number): number => {
-    const now = performance.now();
-    timings[name] = (now - since) / 1000;
-    return now;
-  };
+  const clock = stageClock(timings);
   const hamiltonian = await readHamiltonian(hamiltonianFile);
-  const t = lap('readHamiltonian', t0);
-  const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format });
-  lap('readSamples', t);
+  clock.lap('readHamiltonian');
+  const samples = await readRunSamples(opts);
+  clock.lap('readSamples');
   checkRegister(hamiltonian, hamiltonianFile, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
   const settings: SolverSettings = {
@@ -356,9 +380,7 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     { hamiltonianFile, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start, analysis },
     timings,
   );
-  timings.total = (performance.now() - t0) / 1000;
-  // Run-to-run varying like the times, so it travels with them (process peak, in MiB).
-  timings.peakRSSMB = process.resourceUsage().maxRSS / 1024;
+  clock.finish();
   return outcome;
 }
 

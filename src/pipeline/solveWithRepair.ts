@@ -3,7 +3,6 @@ import type { Basis } from '../bits/basis.js';
 import { nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
 import { readFcidump, type Fcidump } from '../io/fcidump.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
-import { readSamples } from '../io/readSamples.js';
 import { countNonzeroIntegrals } from '../operators/integrals.js';
 import type { PauliSum } from '../operators/pauliSum.js';
 import { electronSector, electronsFromHeader } from '../sectors/electronSector.js';
@@ -15,6 +14,8 @@ import {
   checkRegister,
   matrixOperator,
   projectAndSolveSync,
+  readRunSamples,
+  stageClock,
   sectorReport,
   topConfigurations,
   type SolveOptions,
@@ -75,17 +76,12 @@ function projectOperator(operator: LoadedOperator, basis: Basis, sector: Sector,
  * subspace, build H_S in the determinant or qubit basis, and find its lowest eigenpairs.
  */
 export async function solveWithRepair(opts: SolveOptions): Promise<SolveOutcome> {
-  const t0 = performance.now();
   const timings: Record<string, number> = {};
-  const lap = (name: string, since: number): number => {
-    const now = performance.now();
-    timings[name] = (now - since) / 1000;
-    return now;
-  };
+  const clock = stageClock(timings);
   const operator = await loadOperator(opts);
-  const t = lap('readHamiltonian', t0);
-  const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format });
-  lap('readSamples', t);
+  clock.lap('readHamiltonian');
+  const samples = await readRunSamples(opts);
+  clock.lap('readSamples');
   let sector = opts.sector ?? { weights: [] };
   let electrons: [number, number] | undefined;
   if (operator.kind === 'pauli') {
@@ -121,7 +117,7 @@ export async function solveWithRepair(opts: SolveOptions): Promise<SolveOutcome>
   timings.filter = run.timings.filter;
   timings.build = run.timings.build;
   timings.solve = run.timings.solve;
-  timings.total = (performance.now() - t0) / 1000;
+  clock.finish();
   const result: SolveReport = {
     command: 'solve',
     qubits: samples.qubits,

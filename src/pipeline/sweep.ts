@@ -1,10 +1,8 @@
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
-import type { Qubit0 } from '../io/bitstringParser.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
-import { readSamples, type SampleFormat, type SampleSet } from '../io/readSamples.js';
+import type { SampleSet } from '../io/readSamples.js';
 import type { PauliSum } from '../operators/pauliSum.js';
-import type { Sector } from '../sectors/sector.js';
 import { selectSubspace } from '../sectors/selectSubspace.js';
 import { LANCZOS_DEFAULTS } from '../solvers/lanczos.js';
 import { extrapolate, type LinearExtrapolation } from '../analysis/extrapolate.js';
@@ -13,7 +11,7 @@ import { sampleDiagnostics, type SampleDiagnostics } from '../analysis/sampleDia
 import { firstShots, randomShots } from '../analysis/subsample.js';
 import { energyError, type AnalysisOptions, type EnergyError, type ReferenceEnergy } from './analyze.js';
 import { expandOnce, expandsByImportance, type ExpandOptions, type ExpansionReport } from './expand.js';
-import { checkRegister, resolveAnalysis, solveBasis, solveSamples, type SolveOutcome, type SolveReport, type SubspaceSolveOptions } from './solve.js';
+import { checkRegister, resolveAnalysis, solveBasis, solveSamples, readRunSamples, type SampledRunOptions, type SolveOutcome, type SolveReport, type SubspaceSolveOptions } from './solve.js';
 
 /** What a sweep varies: cumulative dumps, shot budget, top-K configurations, expansion steps. */
 export type SweepAxis = 'groups' | 'shots' | 'top' | 'expand';
@@ -25,27 +23,13 @@ export type SubsampleMode = 'first' | 'random';
 export type ExtrapolateAgainst = 'variance' | 'pt2';
 
 /** Everything `sweep` needs; files are read once, here. */
-export interface SweepOptions {
+export interface SweepOptions extends SampledRunOptions {
   hamiltonian: string;
-  samples: string[];
   axis: SweepAxis;
   /** Axis values (defaults depend on the axis); sorted ascending, duplicates dropped. */
   values?: number[];
   /** Shots axis: `first` N shots (values are shot counts) or nested `random` subsamples (values are fractions). */
   subsample?: SubsampleMode;
-  sector?: Sector;
-  minCount?: number;
-  maxDim?: number;
-  eigs?: number;
-  tol?: number;
-  seed?: number;
-  qubits?: number;
-  qubit0?: Qubit0;
-  format?: SampleFormat;
-  top?: number;
-  threads?: number;
-  memoryBytes?: number;
-  matrixFree?: boolean;
   /** Expansion applied at every point (other axes), or the selection used along the expand axis. */
   expand?: ExpandOptions;
   gap?: number;
@@ -148,7 +132,7 @@ export async function sweep(opts: SweepOptions): Promise<{ report: SweepReport; 
   let t = performance.now();
   timings.readHamiltonian = (t - t0) / 1000;
   const subsample: SubsampleMode = opts.subsample ?? 'first';
-  const samples = await readSamples(opts.samples, { qubits: opts.qubits, qubit0: opts.qubit0, format: opts.format, keepOrder: opts.axis === 'shots' && subsample === 'first' });
+  const samples = await readRunSamples(opts, { keepOrder: opts.axis === 'shots' && subsample === 'first' });
   timings.readSamples = (performance.now() - t) / 1000;
   checkRegister(hamiltonian, opts.hamiltonian, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
