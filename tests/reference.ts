@@ -100,3 +100,21 @@ export function weightIndices(qubits: number, w: number): number[] {
   }
   return out;
 }
+
+/**
+ * ⟨a|coeff·P|b⟩ for one Pauli string on bit arrays a, b (a[q] is qubit q), as the product of the
+ * single-qubit textbook matrix elements above; qubits outside `ops` carry the identity.
+ */
+export function pauliStringElement(a: number[], b: number[], coeff: number, ops: Array<[Op, number]>): [number, number] {
+  let re = coeff;
+  let im = 0;
+  const acted = new Set(ops.map(([, q]) => q));
+  for (let q = 0; q < a.length; q++) if (!acted.has(q) && a[q] !== b[q]) return [0, 0];
+  for (const [op, q] of ops) {
+    const e = 2 * a[q]! + b[q]!;
+    const pr = PAULI[op].re[e]!;
+    const pi = PAULI[op].im[e]!;
+    [re, im] = [re * pr - im * pi, re * pi + im * pr];
+  }
+  return [re, im];
+}

@@ -1,4 +1,5 @@
-import { buildConfigFilter, buildHashSlots, filterWordsFor, lookupConfig, slotCountFor } from './hashIndex.js';
+import { buildConfigFilter, filterWordsFor } from './configFilter.js';
+import { buildHashSlots, lookupConfig, slotCountFor } from './hashIndex.js';
 
 /**
  * The sampled subspace: distinct configurations sorted as binary numbers, with a hash index.
@@ -10,7 +11,7 @@ export interface Basis {
   dim: number;
   /** dim × nWords packed configurations, ascending. */
   states: Uint32Array;
-  /** Open-addressing slots: basis index or −1. */
+  /** Open-addressing slots (see `buildHashSlots`): −1, or a basis index with a fingerprint. */
   slots: Int32Array;
   /** Sampled weight (summed counts) of each configuration; zero for configurations added by expansion. */
   counts: Float64Array;

@@ -27,16 +27,33 @@ export function slotCountFor(size: number): number {
 }
 
 /**
- * Build the slot array for `count` configurations stored in `states`: slot value is the entry index,
- * -1 when empty. The caller guarantees the configurations are distinct.
+ * Slots hold the entry index in their low log2(slots) bits and a fingerprint (the hash's top bits)
+ * above it, so a probe past a different configuration rarely has to read that configuration.
+ */
+function slotLayout(slots: Int32Array): { indexBits: number; indexMask: number; fingerprintShift: number } {
+  const indexBits = 31 - Math.clz32(slots.length);
+  const fingerprintBits = Math.max(0, 31 - indexBits);
+  return { indexBits, indexMask: indexBits >= 31 ? 0x7fffffff : (1 << indexBits) - 1, fingerprintShift: 32 - fingerprintBits };
+}
+
+/** The fingerprint of hash h in a layout (0 when no bits are left for one). */
+function fingerprintOf(h: number, shift: number): number {
+  return shift >= 32 ? 0 : h >>> shift;
+}
+
+/**
+ * Build the slot array for `count` configurations stored in `states`: −1 when empty, else the
+ * entry index and a fingerprint (see `slotLayout`). The caller guarantees the configurations are distinct.
  */
 export function buildHashSlots(states: Uint32Array, count: number, nWords: number, slots: Int32Array = new Int32Array(slotCountFor(count))): Int32Array {
   slots.fill(-1);
   const mask = slots.length - 1;
+  const { indexBits, fingerprintShift } = slotLayout(slots);
   for (let i = 0; i < count; i++) {
-    let s = hashConfig(states, i * nWords, nWords) & mask;
+    const h = hashConfig(states, i * nWords, nWords);
+    let s = h & mask;
     while (slots[s] !== -1) s = (s + 1) & mask;
-    slots[s] = i;
+    slots[s] = i | (fingerprintOf(h, fingerprintShift) << indexBits);
   }
   return slots;
 }
@@ -52,50 +69,22 @@ export function lookupConfig(
   return lookupConfigHashed(states, slots, nWords, query, qOffset, hashConfig(query, qOffset, nWords));
 }
 
-/**
- * A blocked Bloom filter over the configurations' hashes: 512-bit lines, two bits per entry in one
- * line, about 8 bits per entry (small enough to stay in a core's cache at D ~ 10^6). It answers "certainly absent" for most flipped configurations from
- * cache, so the builder touches the large slot array only for the few that may be present.
- */
-export function buildConfigFilter(states: Uint32Array, count: number, nWords: number, filter?: Uint32Array): Uint32Array {
-  const f = filter ?? new Uint32Array(filterWordsFor(count));
-  f.fill(0);
-  const lineMask = f.length / 16 - 1;
-  for (let i = 0; i < count; i++) {
-    const h = hashConfig(states, i * nWords, nWords);
-    const line = (h & lineMask) << 4;
-    const h2 = Math.imul(h ^ (h >>> 16), 0x9e3779b1);
-    f[line + ((h2 >>> 5) & 15)]! |= 1 << (h2 & 31);
-    f[line + ((h2 >>> 14) & 15)]! |= 1 << ((h2 >>> 9) & 31);
-  }
-  return f;
-}
-
-/** Words of filter storage for `count` entries (a power-of-two number of 16-word lines). */
-export function filterWordsFor(count: number): number {
-  let lines = 1;
-  while (lines * 512 < count * 8) lines *= 2;
-  return lines * 16;
-}
-
-/** False when the configuration with hash `h` is certainly not in the set the filter was built from. */
-export function filterMayContain(f: Uint32Array, h: number): boolean {
-  const line = (h & (f.length / 16 - 1)) << 4;
-  const h2 = Math.imul(h ^ (h >>> 16), 0x9e3779b1);
-  return ((f[line + ((h2 >>> 5) & 15)]! >>> (h2 & 31)) & (f[line + ((h2 >>> 14) & 15)]! >>> ((h2 >>> 9) & 31)) & 1) === 1;
-}
-
 /** Like `lookupConfig` but with the hash already computed. */
 export function lookupConfigHashed(states: Uint32Array, slots: Int32Array, nWords: number, query: Uint32Array, qOffset: number, h: number): number {
   const mask = slots.length - 1;
+  const { indexBits, indexMask, fingerprintShift } = slotLayout(slots);
+  const fp = fingerprintOf(h, fingerprintShift);
   let s = h & mask;
   for (;;) {
-    const idx = slots[s]!;
-    if (idx === -1) return -1;
-    const base = idx * nWords;
-    let k = 0;
-    while (k < nWords && states[base + k] === query[qOffset + k]) k++;
-    if (k === nWords) return idx;
+    const v = slots[s]!;
+    if (v === -1) return -1;
+    if (v >>> indexBits === fp) {
+      const idx = v & indexMask;
+      const base = idx * nWords;
+      let k = 0;
+      while (k < nWords && states[base + k] === query[qOffset + k]) k++;
+      if (k === nWords) return idx;
+    }
     s = (s + 1) & mask;
   }
 }

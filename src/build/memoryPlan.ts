@@ -1,8 +1,7 @@
 import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
-import type { FlipGroups } from '../operators/pauliSum.js';
-import { upperEntry, type SectorFlipTest } from './projectedHamiltonian.js';
+import { rowScratch, scanRow, scanTables, type RowScanPlan } from './rowScan.js';
 
 /** How H_S will be applied and what that costs, decided before anything large is allocated. */
 export interface MemoryPlan {
@@ -49,21 +48,15 @@ function solverVectors(dim: number, eigs: number): number {
  * Estimate the memory of a stored build from ~2000 sampled rows and choose stored or matrix-free
  * storage; refuse with a hint when even matrix-free products will not fit.
  */
-export function planMemory(basis: Basis, groups: FlipGroups, test: SectorFlipTest, opts: { budgetBytes?: number; eigs?: number; matrixFree?: boolean; threads?: number }): MemoryPlan {
+export function planMemory(basis: Basis, scan: RowScanPlan, opts: { budgetBytes?: number; eigs?: number; matrixFree?: boolean; threads?: number }): MemoryPlan {
   const dim = basis.dim;
   const budget = opts.budgetBytes ?? defaultMemoryBudget();
-  const c = groups.complex ? 2 : 1;
+  const c = scan.complex ? 2 : 1;
   const sample = Math.min(dim, 2000);
-  const b = new Uint32Array(basis.nWords);
-  const v = new Float64Array(2);
+  const scratch = rowScratch(scan);
+  const tables = scanTables(scan);
   let upper = 0;
-  for (let s = 0; s < sample; s++) {
-    const r = Math.floor((s * dim) / sample);
-    for (let g = 0; g < groups.count; g++) {
-      const col = upperEntry(basis, groups, test, r, g, b, v);
-      if (col > r) upper++;
-    }
-  }
+  for (let s = 0; s < sample; s++) upper += scanRow(scan, basis, tables, Math.floor((s * dim) / sample), scratch);
   const upperEstimate = Math.ceil((upper / Math.max(1, sample)) * dim);
   const nnz = 2 * upperEstimate + dim;
   const basisBytes = basis.states.byteLength + basis.slots.byteLength + basis.filter.byteLength + basis.counts.byteLength;

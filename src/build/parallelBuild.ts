@@ -3,6 +3,7 @@ import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
 import { runInPool, threadPool } from '../parallel/threadPool.js';
 import { assembleHermitian, buildUpperRows, sectorFlipTest, type UpperPiece } from './projectedHamiltonian.js';
+import { rowScanPlan } from './rowScan.js';
 import type { SparseMatrix } from './sparseMatrix.js';
 
 /** Rows per task below which one thread is faster than shipping work to the pool. */
@@ -20,10 +21,10 @@ export async function buildProjectedHamiltonianParallel(
   threads: number,
   onProgress?: (rowsDone: number, rows: number) => void,
 ): Promise<SparseMatrix> {
-  const test = sectorFlipTest(groups, sector);
+  const plan = rowScanPlan(groups, sectorFlipTest(groups, sector));
   const shared = basis.states.buffer instanceof SharedArrayBuffer && basis.slots.buffer instanceof SharedArrayBuffer;
   if (threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared) {
-    const piece = buildUpperRows(basis, groups, test, 0, basis.dim);
+    const piece = buildUpperRows(basis, plan, 0, basis.dim);
     onProgress?.(basis.dim, basis.dim);
     return assembleHermitian(basis.dim, groups.complex, [piece]);
   }
@@ -37,7 +38,7 @@ export async function buildProjectedHamiltonianParallel(
   for (let r0 = 0; r0 < basis.dim; r0 += step) {
     const r1 = Math.min(basis.dim, r0 + step);
     tasks.push(
-      runInPool<unknown, UpperPiece>(pool, { basis: view, groups, test, r0, r1 }).then((p) => {
+      runInPool<unknown, UpperPiece>(pool, { basis: view, plan, r0, r1 }).then((p) => {
         done += p.r1 - p.r0;
         onProgress?.(done, basis.dim);
         return p;

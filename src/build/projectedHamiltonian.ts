@@ -1,8 +1,8 @@
 import type { Basis } from '../bits/basis.js';
-import { filterMayContain, hashConfig, lookupConfigHashed } from '../bits/hashIndex.js';
 import { popcount32 } from '../bits/packed.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
+import { rowScanPlan, rowScratch, scanRow, scanTables, type RowScanPlan } from './rowScan.js';
 import type { SparseMatrix } from './sparseMatrix.js';
 
 /**
@@ -74,105 +74,43 @@ export interface UpperPiece {
 }
 
 /**
- * The entry of row a (at `aOff` in the basis) produced by flip group g when it lies on the diagonal
- * or in the upper triangle: returns the column (−1 when b = a ⊕ flip is below a, leaves the sector,
- * or is not sampled) and writes ⟨a|H_g|b⟩ = Σ_t coeff_t · i^{#Y} · (−1)^{popcount(b & z_t)} to
- * out[0] (re) and out[1] (im). The Bloom filter rejects most absent b before the hash lookup.
- */
-export function upperEntry(basis: Basis, groups: FlipGroups, test: SectorFlipTest, row: number, g: number, b: Uint32Array, out: Float64Array): number {
-  const nWords = basis.nWords;
-  const states = basis.states;
-  const aOff = row * nWords;
-  const topWord = test.topWord[g]!;
-  let col = row;
-  if (topWord < 0) {
-    for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]!;
-  } else {
-    if (test.groupAllowed[g] === 0 || (states[aOff + topWord]! & test.topBit[g]!) !== 0) return -1;
-    const nc = test.constraints;
-    for (let c = 0; c < nc; c++) {
-      let w = 0;
-      const mOff = (g * nc + c) * nWords;
-      for (let k = 0; k < nWords; k++) w += popcount32(states[aOff + k]! & test.flipMasked[mOff + k]!);
-      if (2 * w !== test.flipWeight[g * nc + c]) return -1;
-    }
-    for (let k = 0; k < nWords; k++) b[k] = states[aOff + k]! ^ groups.flipMasks[g * nWords + k]!;
-    const h = hashConfig(b, 0, nWords);
-    if (!filterMayContain(basis.filter, h)) return -1;
-    col = lookupConfigHashed(states, basis.slots, nWords, b, 0, h);
-    if (col < 0) return -1;
-  }
-  const { termStart, zMasks, phaseRe, phaseIm } = groups;
-  let vr = 0;
-  let vi = 0;
-  for (let t = termStart[g]!; t < termStart[g + 1]!; t++) {
-    let par = 0;
-    for (let k = 0; k < nWords; k++) par ^= popcount32(b[k]! & zMasks[t * nWords + k]!);
-    if (par & 1) {
-      vr -= phaseRe[t]!;
-      vi -= phaseIm[t]!;
-    } else {
-      vr += phaseRe[t]!;
-      vi += phaseIm[t]!;
-    }
-  }
-  out[0] = vr;
-  out[1] = vi;
-  return col;
-}
-
-/**
  * Build the upper-triangle rows r0..r1 (plus the diagonal) of H_S = P H P; each unordered pair
  * is looked up once and `assembleHermitian` mirrors it.
  */
-export function buildUpperRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest, r0: number, r1: number): UpperPiece {
-  const complex = groups.complex;
+export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: number): UpperPiece {
+  const complex = plan.complex;
   const rows = r1 - r0;
   let cap = Math.max(64, rows * 4);
   let cols = new Int32Array(cap);
   let values = new Float64Array(complex ? 2 * cap : cap);
   const diag = new Float64Array(complex ? 2 * rows : rows);
   const rowEnd = new Int32Array(rows);
-  const b = new Uint32Array(basis.nWords);
-  const v = new Float64Array(2);
+  const s = rowScratch(plan);
+  const tables = scanTables(plan);
   let nnz = 0;
   for (let r = r0; r < r1; r++) {
-    const rowStart = nnz;
-    let dr = groups.constant;
-    let di = 0;
-    const aOff = r * basis.nWords;
-    for (let g = 0; g < groups.count; g++) {
-      // Cheapest rejections first, before the call: about half the flips point below the diagonal.
-      const tw = test.topWord[g]!;
-      if (tw >= 0 && (test.groupAllowed[g] === 0 || (basis.states[aOff + tw]! & test.topBit[g]!) !== 0)) continue;
-      const col = upperEntry(basis, groups, test, r, g, b, v);
-      if (col < 0) continue;
-      if (col === r) {
-        dr += v[0]!;
-        di += v[1]!;
-        continue;
-      }
-      if (v[0] === 0 && v[1] === 0) continue;
-      if (nnz === cap) {
-        cap *= 2;
-        const c2 = new Int32Array(cap);
-        c2.set(cols);
-        cols = c2;
-        const v2 = new Float64Array(complex ? 2 * cap : cap);
-        v2.set(values);
-        values = v2;
-      }
-      cols[nnz] = col;
-      if (complex) {
-        values[2 * nnz] = v[0]!;
-        values[2 * nnz + 1] = v[1]!;
-      } else values[nnz] = v[0]!;
-      nnz++;
-    }
+    const hits = scanRow(plan, basis, tables, r, s);
     if (complex) {
-      diag[2 * (r - r0)] = dr;
-      diag[2 * (r - r0) + 1] = di;
-    } else diag[r - r0] = dr;
+      diag[2 * (r - r0)] = s.diag[0]!;
+      diag[2 * (r - r0) + 1] = s.diag[1]!;
+    } else diag[r - r0] = s.diag[0]!;
+    if (nnz + hits > cap) {
+      while (nnz + hits > cap) cap *= 2;
+      const c2 = new Int32Array(cap);
+      c2.set(cols);
+      cols = c2;
+      const v2 = new Float64Array(complex ? 2 * cap : cap);
+      v2.set(values);
+      values = v2;
+    }
+    const rowStart = nnz;
+    for (let i = 0; i < hits; i++, nnz++) {
+      cols[nnz] = s.cols[i]!;
+      if (complex) {
+        values[2 * nnz] = s.values[2 * i]!;
+        values[2 * nnz + 1] = s.values[2 * i + 1]!;
+      } else values[nnz] = s.values[2 * i]!;
+    }
     sortRow(cols, values, rowStart, nnz, complex);
     rowEnd[r - r0] = nnz;
   }
@@ -183,40 +121,41 @@ export function buildUpperRows(basis: Basis, groups: FlipGroups, test: SectorFli
  * Matrix-free y += H_S x over rows r0..r1: the same entries as the stored build, applied as they
  * are found (each pair once, mirrored), so memory stays at the basis and a few vectors.
  */
-export function applyUpperRows(basis: Basis, groups: FlipGroups, test: SectorFlipTest, r0: number, r1: number, x: Float64Array, y: Float64Array): void {
-  const complex = groups.complex;
-  const b = new Uint32Array(basis.nWords);
-  const v = new Float64Array(2);
+export function applyUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: number, x: Float64Array, y: Float64Array): void {
+  const complex = plan.complex;
+  const s = rowScratch(plan);
+  const tables = scanTables(plan);
   for (let r = r0; r < r1; r++) {
-    let dr = groups.constant;
-    const aOff = r * basis.nWords;
-    for (let g = 0; g < groups.count; g++) {
-      const tw = test.topWord[g]!;
-      if (tw >= 0 && (test.groupAllowed[g] === 0 || (basis.states[aOff + tw]! & test.topBit[g]!) !== 0)) continue;
-      const c = upperEntry(basis, groups, test, r, g, b, v);
-      if (c < 0) continue;
-      if (c === r) {
-        dr += v[0]!;
-        continue;
+    const hits = scanRow(plan, basis, tables, r, s);
+    if (!complex) {
+      const xr = x[r]!;
+      let acc = s.diag[0]! * xr;
+      for (let i = 0; i < hits; i++) {
+        const c = s.cols[i]!;
+        const v = s.values[2 * i]!;
+        acc += v * x[c]!;
+        y[c]! += v * xr;
       }
-      const vr = v[0]!;
-      if (!complex) {
-        y[r]! += vr * x[c]!;
-        y[c]! += vr * x[r]!;
-        continue;
-      }
-      const vi = v[1]!;
-      const xr = x[2 * r]!, xi = x[2 * r + 1]!, cr = x[2 * c]!, ci = x[2 * c + 1]!;
+      y[r]! += acc;
+      continue;
+    }
+    const xr = x[2 * r]!;
+    const xi = x[2 * r + 1]!;
+    const dr = s.diag[0]!;
+    y[2 * r]! += dr * xr;
+    y[2 * r + 1]! += dr * xi;
+    for (let i = 0; i < hits; i++) {
+      const c = s.cols[i]!;
+      const vr = s.values[2 * i]!;
+      const vi = s.values[2 * i + 1]!;
+      const cr = x[2 * c]!;
+      const ci = x[2 * c + 1]!;
       y[2 * r]! += vr * cr - vi * ci;
       y[2 * r + 1]! += vr * ci + vi * cr;
       // Lower entry is the conjugate.
       y[2 * c]! += vr * xr + vi * xi;
       y[2 * c + 1]! += vr * xi - vi * xr;
     }
-    if (complex) {
-      y[2 * r]! += dr * x[2 * r]!;
-      y[2 * r + 1]! += dr * x[2 * r + 1]!;
-    } else y[r]! += dr * x[r]!;
   }
 }
 
@@ -286,7 +225,7 @@ export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPi
 
 /** Build the whole projected Hamiltonian on the calling thread. */
 export function buildProjectedHamiltonian(basis: Basis, groups: FlipGroups, sector: CompiledSector | undefined): SparseMatrix {
-  const piece = buildUpperRows(basis, groups, sectorFlipTest(groups, sector), 0, basis.dim);
+  const piece = buildUpperRows(basis, rowScanPlan(groups, sectorFlipTest(groups, sector)), 0, basis.dim);
   return assembleHermitian(basis.dim, groups.complex, [piece]);
 }
 

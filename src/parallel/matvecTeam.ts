@@ -1,14 +1,14 @@
 import { Worker } from 'node:worker_threads';
 import type { Basis } from '../bits/basis.js';
-import { applyUpperRows, type SectorFlipTest } from '../build/projectedHamiltonian.js';
+import { applyUpperRows } from '../build/projectedHamiltonian.js';
+import type { RowScanPlan } from '../build/rowScan.js';
 import { csrApplyRows, type SparseMatrix } from '../build/sparseMatrix.js';
-import type { FlipGroups } from '../operators/pauliSum.js';
 import type { LinearOperator } from '../solvers/lanczos.js';
 import { workerScript } from '../util/packageRoot.js';
 
 /**
  * What every team member needs, all on SharedArrayBuffers: the operator (a stored CSR matrix, or
- * the basis and Pauli groups for matrix-free products), the input vector, one output vector per
+ * the basis and row-scan plan for matrix-free products), the input vector, one output vector per
  * member for matrix-free products (whose mirrored updates cross row ranges), and the row split.
  */
 export interface TeamSpec {
@@ -17,8 +17,7 @@ export interface TeamSpec {
   dim: number;
   matrix?: SparseMatrix;
   basis?: Basis;
-  groups?: FlipGroups;
-  test?: SectorFlipTest;
+  plan?: RowScanPlan;
   x: Float64Array;
   ys: Float64Array[];
   bounds: Int32Array;
@@ -34,7 +33,7 @@ export function applyTeamRows(spec: TeamSpec, m: number): void {
   } else {
     const y = spec.ys[m]!;
     y.fill(0);
-    applyUpperRows(spec.basis!, spec.groups!, spec.test!, r0, r1, spec.x, y);
+    applyUpperRows(spec.basis!, spec.plan!, r0, r1, spec.x, y);
   }
 }
 

@@ -4,6 +4,7 @@ import { formatBitstring } from '../bits/packed.js';
 import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
+import { rowScanPlan } from '../build/rowScan.js';
 import { MatvecTeam } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
@@ -168,8 +169,8 @@ export interface SolveOutcome {
 /** A single-thread matrix-free operator for H_S on `basis` (used when no matrix was stored). */
 export function matrixFreeOperator(hamiltonian: PauliSum, basis: Basis, sector: Sector): LinearOperator {
   const groups = groupByFlipMask(hamiltonian, basis.nWords);
-  const test = sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords));
-  return { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, groups, test, 0, basis.dim, x, y)) };
+  const scan = rowScanPlan(groups, sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords)));
+  return { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y)) };
 }
 
 /** Operator view of a stored sparse matrix. */
@@ -288,9 +289,9 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   const groups = groupByFlipMask(hamiltonian, basis.nWords);
   const threads = settings.threads ?? defaultThreads();
   const compiled = compileSector(sector, basis.qubits, basis.nWords);
-  const test = sectorFlipTest(groups, compiled);
+  const scan = rowScanPlan(groups, sectorFlipTest(groups, compiled));
   const eigs = settings.eigs ?? 1;
-  const plan = planMemory(basis, groups, test, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
+  const plan = planMemory(basis, scan, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
   const shared = basis.states.buffer instanceof SharedArrayBuffer;
   let matrix: SparseMatrix | undefined;
   let op: LinearOperator;
@@ -300,8 +301,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
     op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: matrix.complex, dim: matrix.dim, matrix }, threads)) : matrixOperator(matrix);
   } else {
     const view: Basis = { ...basis, counts: new Float64Array(0) };
-    const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, groups, test };
-    op = threads > 1 && shared ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, groups, test, 0, basis.dim, x, y)) };
+    const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan };
+    op = threads > 1 && shared ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y)) };
   }
   const t1 = performance.now();
   let eigen: LanczosResult;
