@@ -10,7 +10,7 @@ import { writeBenchCase } from './cases.js';
 import { readHamiltonian } from '../src/io/readHamiltonian.js';
 import { readSamples } from '../src/io/readSamples.js';
 import { groupByFlipMask } from '../src/operators/pauliSum.js';
-import { matrixOperator, projectAndSolve } from '../src/pipeline/solve.js';
+import { projectAndSolve, storedOperator } from '../src/pipeline/solve.js';
 import { compileSector } from '../src/sectors/sector.js';
 import { selectSubspace } from '../src/sectors/selectSubspace.js';
 import { varianceAndPt2 } from '../src/analysis/varianceAndPt2.js';
@@ -35,7 +35,7 @@ async function main(argv: string[]): Promise<void> {
       const p = await projectAndSolve(h, basis, sector, { threads: 1 });
       const t1 = performance.now();
       const c1 = process.cpuUsage();
-      const est = varianceAndPt2(basis, groupByFlipMask(h, basis.nWords), matrixOperator(p.matrix!), p.eigen.vectors[0]!, {
+      const est = varianceAndPt2(basis, groupByFlipMask(h, basis.nWords), storedOperator(p.matrix!), p.eigen.vectors[0]!, {
         sector: compileSector(sector, basis.qubits, basis.nWords),
       });
       const t2 = performance.now();

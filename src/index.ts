@@ -33,6 +33,8 @@ export { PauliSumBuilder, groupByFlipMask, isComplexHamiltonian, formatPauliOps,
 export { makeIntegrals, setOneElectron, setTwoElectron, eriIndex, countNonzeroIntegrals, MAX_ORBITALS, type Integrals } from './operators/integrals.js';
 
 export { buildProjectedHamiltonian, buildUpperRows, assembleHermitian, sectorFlipTest, type UpperPiece, type SectorFlipTest } from './build/projectedHamiltonian.js';
+export { rowScanPlan, type RowScanPlan } from './build/rowScan.js';
+export { storedFromPieces, applyStoredRows, storedNonzeros, storedBytes, toSparseMatrix, type StoredHamiltonian } from './build/storedHamiltonian.js';
 export { buildDeterminantHamiltonian, buildDeterminantRows, countDeterminantRows, pieceMatrix, prepareDeterminants, determinantRow, determinantDiagonal, determinantNonzeroBound, forEachRow, RowSink, type DeterminantContext } from './build/determinantHamiltonian.js';
 export { applyDeterminantRows, determinantOperator } from './build/determinantOperator.js';
 export { splitSpinStrings, makeSpinStrings, type SpinStrings, type SpinSplit } from './build/spinStrings.js';
@@ -44,7 +46,7 @@ export { csrApplyRows, joinRowPieces, nonzeros, toDense, type SparseMatrix, type
 export { lanczos, LANCZOS_DEFAULTS, type LanczosOptions, type LanczosResult, type LinearOperator } from './solvers/lanczos.js';
 export { symmetricEigen } from './solvers/symmetricEigen.js';
 
-export { solve, projectAndSolve, projectAndSolveSync, type SampledRunOptions, checkRegister, sectorReport, matrixOperator, matrixFreeOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
+export { solve, projectAndSolve, projectAndSolveSync, type SampledRunOptions, checkRegister, sectorReport, matrixOperator, storedOperator, matrixFreeOperator, topConfigurations, type SolverSettings, type Projection, type SolveOptions, type SolveReport, type SolveOutcome } from './pipeline/solve.js';
 export { solveSamples, solveBasis, exactReference, resolveAnalysis, readStartState, EXACT_MAX_DIM, type SubspaceSolveOptions, type SolveAnalysisOptions } from './pipeline/solve.js';
 export { analyzeLowest, energyError, OBSERVABLE_CAVEAT, type AnalysisOptions, type AnalysisReport, type AnalysisInput, type ReferenceEnergy, type EnergyError, type EstimateDetails, type BatchReport } from './pipeline/analyze.js';
 export { expandSubspace, expandOnce, expandsByImportance, type ExpandOptions, type ExpansionReport, type ExpansionStep, type LowestState } from './pipeline/expand.js';

@@ -2,9 +2,9 @@ import type { Basis } from '../bits/basis.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
 import { runInPool, threadPool } from '../parallel/threadPool.js';
-import { assembleHermitian, buildUpperRows, sectorFlipTest, type UpperPiece } from './projectedHamiltonian.js';
+import { buildUpperRows, sectorFlipTest, type UpperPiece } from './projectedHamiltonian.js';
 import { rowScanPlan } from './rowScan.js';
-import type { SparseMatrix } from './sparseMatrix.js';
+import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
 
 /** Rows per task below which one thread is faster than shipping work to the pool. */
 const MIN_ROWS_PARALLEL = 20000;
@@ -12,7 +12,7 @@ const MIN_ROWS_PARALLEL = 20000;
 /**
  * Build H_S over `threads` worker threads: the basis must sit on SharedArrayBuffers (makeBasis with
  * `shared`), rows are split into chunks (several per thread for balance), and the upper-triangle
- * pieces are mirrored into one CSR matrix. Identical output for any thread count.
+ * pieces are mirrored into one stored Hamiltonian. Identical output for any thread count.
  */
 export async function buildProjectedHamiltonianParallel(
   basis: Basis,
@@ -20,13 +20,13 @@ export async function buildProjectedHamiltonianParallel(
   sector: CompiledSector | undefined,
   threads: number,
   onProgress?: (rowsDone: number, rows: number) => void,
-): Promise<SparseMatrix> {
+): Promise<StoredHamiltonian> {
   const plan = rowScanPlan(groups, sectorFlipTest(groups, sector));
   const shared = basis.states.buffer instanceof SharedArrayBuffer && basis.slots.buffer instanceof SharedArrayBuffer;
   if (threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared) {
     const piece = buildUpperRows(basis, plan, 0, basis.dim);
     onProgress?.(basis.dim, basis.dim);
-    return assembleHermitian(basis.dim, groups.complex, [piece]);
+    return storedFromPieces(basis.dim, groups.complex, [piece]);
   }
   const pool = threadPool('buildRows', threads);
   const chunks = Math.min(64, threads * 8);
@@ -46,5 +46,5 @@ export async function buildProjectedHamiltonianParallel(
     );
   }
   const pieces = await Promise.all(tasks);
-  return assembleHermitian(basis.dim, groups.complex, pieces, true);
+  return storedFromPieces(basis.dim, groups.complex, pieces, true);
 }

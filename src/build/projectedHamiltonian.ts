@@ -4,6 +4,7 @@ import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
 import { rowScanPlan, rowScratch, scanRow, scanTables, type RowScanPlan } from './rowScan.js';
 import type { SparseMatrix } from './sparseMatrix.js';
+import { storedFromPieces, toSparseMatrix } from './storedHamiltonian.js';
 
 /**
  * Per-group data for the row loop. A flip keeps a sector configuration a in the sector iff for
@@ -159,68 +160,9 @@ export function applyUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   }
 }
 
-/**
- * Join upper-triangle pieces (in row order) into the full Hermitian CSR matrix: each row holds
- * its mirrored lower entries, the diagonal, then its upper entries, so columns stay ascending.
- */
-export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPiece[], shared = false): SparseMatrix {
-  const lower = new Int32Array(dim);
-  let upper = 0;
-  let diagonals = 0;
-  // A diagonal that is exactly zero is not stored, as off-diagonal zeros are not.
-  const hasDiag = (p: UpperPiece, i: number): boolean => (complex ? p.diag[2 * i] !== 0 || p.diag[2 * i + 1] !== 0 : p.diag[i] !== 0);
-  for (const p of pieces) {
-    for (let e = 0; e < p.cols.length; e++) lower[p.cols[e]!]!++;
-    upper += p.cols.length;
-    for (let i = 0; i < p.r1 - p.r0; i++) if (hasDiag(p, i)) diagonals++;
-  }
-  const nnz = 2 * upper + diagonals;
-  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(bytes));
-  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
-  const lowerPos = new Int32Array(dim);
-  let at = 0;
-  for (const p of pieces) {
-    for (let r = p.r0; r < p.r1; r++) {
-      const inRow = p.rowEnd[r - p.r0]! - (r === p.r0 ? 0 : p.rowEnd[r - p.r0 - 1]!);
-      rowPtr[r] = at;
-      lowerPos[r] = at;
-      at += lower[r]! + (hasDiag(p, r - p.r0) ? 1 : 0) + inRow;
-    }
-  }
-  rowPtr[dim] = at;
-  const cols = new Int32Array(alloc(nnz * 4));
-  const values = new Float64Array(alloc((complex ? 2 * nnz : nnz) * 8));
-  for (const p of pieces) {
-    let e = 0;
-    for (let r = p.r0; r < p.r1; r++) {
-      const i = r - p.r0;
-      let pos = rowPtr[r]! + lower[r]!;
-      if (hasDiag(p, i)) {
-        cols[pos] = r;
-        if (complex) {
-          values[2 * pos] = p.diag[2 * i]!;
-          values[2 * pos + 1] = p.diag[2 * i + 1]!;
-        } else values[pos] = p.diag[i]!;
-        pos++;
-      }
-      for (const end = p.rowEnd[i]!; e < end; e++, pos++) {
-        const c = p.cols[e]!;
-        cols[pos] = c;
-        const lp = lowerPos[c]!++;
-        cols[lp] = r;
-        if (complex) {
-          values[2 * pos] = p.values[2 * e]!;
-          values[2 * pos + 1] = p.values[2 * e + 1]!;
-          values[2 * lp] = p.values[2 * e]!;
-          values[2 * lp + 1] = -p.values[2 * e + 1]!;
-        } else {
-          values[pos] = p.values[e]!;
-          values[lp] = p.values[e]!;
-        }
-      }
-    }
-  }
-  return { dim, complex, rowPtr, cols, values };
+/** Join upper-triangle pieces (in row order) into the full Hermitian CSR matrix (columns ascending per row). */
+export function assembleHermitian(dim: number, complex: boolean, pieces: UpperPiece[]): SparseMatrix {
+  return toSparseMatrix(storedFromPieces(dim, complex, pieces));
 }
 
 /** Build the whole projected Hamiltonian on the calling thread. */

@@ -2,7 +2,7 @@ import { Worker } from 'node:worker_threads';
 import type { Basis } from '../bits/basis.js';
 import { applyUpperRows } from '../build/projectedHamiltonian.js';
 import type { RowScanPlan } from '../build/rowScan.js';
-import { csrApplyRows, type SparseMatrix } from '../build/sparseMatrix.js';
+import { applyStoredRows, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import type { LinearOperator } from '../solvers/lanczos.js';
 import { workerScript } from '../util/packageRoot.js';
 
@@ -15,7 +15,7 @@ export interface TeamSpec {
   kind: 'stored' | 'free';
   complex: boolean;
   dim: number;
-  matrix?: SparseMatrix;
+  matrix?: StoredHamiltonian;
   basis?: Basis;
   plan?: RowScanPlan;
   x: Float64Array;
@@ -29,7 +29,7 @@ export function applyTeamRows(spec: TeamSpec, m: number): void {
   const r0 = spec.bounds[m]!;
   const r1 = spec.bounds[m + 1]!;
   if (spec.kind === 'stored') {
-    csrApplyRows(spec.matrix!, spec.x, spec.ys[0]!, r0, r1);
+    applyStoredRows(spec.matrix!, spec.x, spec.ys[0]!, r0, r1);
   } else {
     const y = spec.ys[m]!;
     y.fill(0);

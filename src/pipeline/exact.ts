@@ -1,7 +1,7 @@
 import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import { makeBasis, type Basis } from '../bits/basis.js';
-import type { SparseMatrix } from '../build/sparseMatrix.js';
+import type { StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { sectorFlipTest } from '../build/projectedHamiltonian.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
@@ -42,7 +42,7 @@ export type ExactReport = Omit<SolveReport, 'command' | 'samples'> & { command: 
 export interface ExactOutcome {
   report: ExactReport;
   basis: Basis;
-  matrix?: SparseMatrix;
+  matrix?: StoredHamiltonian;
   hamiltonian: PauliSum;
   eigen: LanczosResult;
 }

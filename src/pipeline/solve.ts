@@ -5,10 +5,11 @@ import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { rowScanPlan } from '../build/rowScan.js';
+import { applyStoredRows, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
-import { csrApplyRows, nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
+import { csrApplyRows, type SparseMatrix } from '../build/sparseMatrix.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';
 import { readSamples, type SampleFormat } from '../io/readSamples.js';
@@ -156,8 +157,8 @@ export interface SectorReport {
 export interface SolveOutcome {
   report: SolveReport;
   basis: Basis;
-  /** The stored matrix; undefined when products were matrix-free. */
-  matrix?: SparseMatrix;
+  /** The stored matrix (the compact form from `projectAndSolve`, CSR from the repair and determinant paths); undefined when products were matrix-free. */
+  matrix?: StoredHamiltonian | SparseMatrix;
   /** The Pauli Hamiltonian (undefined on the determinant path, which sets `integrals`). */
   hamiltonian?: PauliSum;
   integrals?: Fcidump;
@@ -171,6 +172,11 @@ export function matrixFreeOperator(hamiltonian: PauliSum, basis: Basis, sector: 
   const groups = groupByFlipMask(hamiltonian, basis.nWords);
   const scan = rowScanPlan(groups, sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords)));
   return { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y)) };
+}
+
+/** Operator view of a stored Hamiltonian (single thread). */
+export function storedOperator(m: StoredHamiltonian): LinearOperator {
+  return { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
 }
 
 /** Operator view of a stored sparse matrix. */
@@ -271,7 +277,7 @@ export interface SolverSettings {
 /** The projected operator, its eigenpairs and how long each took. */
 export interface Projection {
   /** The stored matrix; undefined in matrix-free mode. */
-  matrix?: SparseMatrix;
+  matrix?: StoredHamiltonian;
   /** Nonzeros of H_S (estimated in matrix-free mode). */
   nonzeros: number;
   complex: boolean;
@@ -293,12 +299,12 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   const eigs = settings.eigs ?? 1;
   const plan = planMemory(basis, scan, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
   const shared = basis.states.buffer instanceof SharedArrayBuffer;
-  let matrix: SparseMatrix | undefined;
+  let matrix: StoredHamiltonian | undefined;
   let op: LinearOperator;
   let team: MatvecTeam | undefined;
   if (plan.storage === 'stored') {
     matrix = await buildProjectedHamiltonianParallel(basis, groups, compiled, threads, settings.onBuildProgress);
-    op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: matrix.complex, dim: matrix.dim, matrix }, threads)) : matrixOperator(matrix);
+    op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: matrix.complex, dim: matrix.dim, matrix }, threads)) : storedOperator(matrix);
   } else {
     const view: Basis = { ...basis, counts: new Float64Array(0) };
     const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan };
@@ -320,7 +326,7 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   const t2 = performance.now();
   return {
     matrix,
-    nonzeros: matrix ? nonzeros(matrix) : plan.nonzerosEstimate,
+    nonzeros: matrix ? storedNonzeros(matrix) : plan.nonzerosEstimate,
     complex: groups.complex,
     plan,
     eigen,
@@ -465,7 +471,7 @@ export async function solveBasis(
       const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1, tol, seed, threads });
       return { energy: p.eigen.values[0]!, residual: p.eigen.residuals[0]! };
     };
-    const operator = matrix ? matrixOperator(matrix) : matrixFreeOperator(hamiltonian, basis, opts.sector);
+    const operator = matrix ? storedOperator(matrix) : matrixFreeOperator(hamiltonian, basis, opts.sector);
     const { keys, timings: at } = await analyzeLowest(
       { hamiltonian, basis, sector: opts.sector, eigen, operator, sampledBasis: extras.sampledBasis, samples: extras.samples, solveOn },
       opts.analysis,

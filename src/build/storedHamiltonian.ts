@@ -1,0 +1,250 @@
+import type { UpperPiece } from './projectedHamiltonian.js';
+import type { SparseMatrix } from './sparseMatrix.js';
+
+/**
+ * H_S as the solver stores it: the diagonal as a dense vector, the off-diagonal entries (both
+ * triangles, so each product row is a plain gather that threads split without conflicts) in CSR
+ * with 32-bit columns, and their values as 8- or 16-bit codes into a table of distinct values
+ * when there are few (lattice models have a handful), else as doubles. At 6 entries a row this
+ * is 5 bytes an entry instead of 12.
+ */
+export interface StoredHamiltonian {
+  dim: number;
+  complex: boolean;
+  /** Diagonal (re, im interleaved when complex). */
+  diag: Float64Array;
+  /** Off-diagonal row starts (a double: the count may pass 2^31). */
+  rowPtr: Float64Array;
+  cols: Int32Array;
+  /** Value codes into `table`, or undefined when `values` holds the entries. */
+  codes?: Uint8Array | Uint16Array;
+  /** Distinct values (re, im pairs when complex). */
+  table?: Float64Array;
+  values?: Float64Array;
+}
+
+/** Bytes of the stored arrays: what one product must stream at least, besides the vectors. */
+export function storedBytes(m: StoredHamiltonian): number {
+  return m.diag.byteLength + m.rowPtr.byteLength + m.cols.byteLength + (m.codes?.byteLength ?? 0) + (m.table?.byteLength ?? 0) + (m.values?.byteLength ?? 0);
+}
+
+/** Most distinct values a code table holds. */
+const MAX_CODES = 65536;
+
+/** Stored entries, counted as in a full CSR matrix: both triangles plus the nonzero diagonal. */
+export function storedNonzeros(m: StoredHamiltonian): number {
+  let diagonals = 0;
+  for (let i = 0; i < m.dim; i++) if (m.complex ? m.diag[2 * i] !== 0 || m.diag[2 * i + 1] !== 0 : m.diag[i] !== 0) diagonals++;
+  return m.rowPtr[m.dim]! + diagonals;
+}
+
+/**
+ * Join upper-triangle pieces (in row order) into a stored Hamiltonian: each row gets its mirrored
+ * lower entries (ascending columns) then its upper ones. `shared`: arrays on SharedArrayBuffers.
+ */
+export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false): StoredHamiltonian {
+  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
+  const w = complex ? 2 : 1;
+  const diag = new Float64Array(alloc(w * dim * 8));
+  const lower = new Int32Array(dim);
+  let upper = 0;
+  for (const p of pieces) {
+    diag.set(p.diag, w * p.r0);
+    for (let e = 0; e < p.cols.length; e++) lower[p.cols[e]!]!++;
+    upper += p.cols.length;
+  }
+  const coding = valueCodes(pieces, complex);
+  const nnz = 2 * upper;
+  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
+  const lowerPos = new Float64Array(dim);
+  let at = 0;
+  for (const p of pieces) {
+    for (let r = p.r0; r < p.r1; r++) {
+      const i = r - p.r0;
+      rowPtr[r] = at;
+      lowerPos[r] = at;
+      at += lower[r]! + p.rowEnd[i]! - (i === 0 ? 0 : p.rowEnd[i - 1]!);
+    }
+  }
+  rowPtr[dim] = at;
+  const cols = new Int32Array(alloc(nnz * 4));
+  const bytesPerCode = coding ? (coding.count <= 256 ? 1 : 2) : 0;
+  const codes = coding ? (bytesPerCode === 1 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2))) : undefined;
+  const values = coding ? undefined : new Float64Array(alloc(w * nnz * 8));
+  let codeAt = 0;
+  for (const p of pieces) {
+    let e = 0;
+    for (let r = p.r0; r < p.r1; r++) {
+      let pos = rowPtr[r]! + lower[r]!;
+      for (const end = p.rowEnd[r - p.r0]!; e < end; e++, pos++) {
+        const c = p.cols[e]!;
+        const lp = lowerPos[c]!++;
+        cols[pos] = c;
+        cols[lp] = r;
+        if (codes) {
+          // The lower entry is the conjugate: its code is the upper code's partner.
+          const code = coding!.codeOf[codeAt++]!;
+          codes[pos] = code;
+          codes[lp] = coding!.conjugate[code]!;
+        } else if (complex) {
+          values![2 * pos] = p.values[2 * e]!;
+          values![2 * pos + 1] = p.values[2 * e + 1]!;
+          values![2 * lp] = p.values[2 * e]!;
+          values![2 * lp + 1] = -p.values[2 * e + 1]!;
+        } else {
+          values![pos] = p.values[e]!;
+          values![lp] = p.values[e]!;
+        }
+      }
+    }
+  }
+  return coding ? { dim, complex, diag, rowPtr, cols, codes, table: coding.table } : { dim, complex, diag, rowPtr, cols, values };
+}
+
+/**
+ * The code of every upper entry (in piece order), the table of distinct values, and for each code
+ * the code of its conjugate; undefined when there are more than MAX_CODES distinct values.
+ */
+function valueCodes(pieces: UpperPiece[], complex: boolean): { codeOf: Uint16Array; table: Float64Array; conjugate: Uint16Array; count: number } | undefined {
+  let upper = 0;
+  for (const p of pieces) upper += p.cols.length;
+  const w = complex ? 2 : 1;
+  // Open addressing on the values' bits; 4·MAX_CODES slots keep it at most a quarter full.
+  const slots = new Int32Array(4 * MAX_CODES).fill(-1);
+  const mask = slots.length - 1;
+  const table = new Float64Array(w * 2 * MAX_CODES);
+  const bits = new Uint32Array(table.buffer);
+  let count = 0;
+  const codeOf = new Uint16Array(upper);
+  const probe = new Float64Array(2);
+  const probeBits = new Uint32Array(probe.buffer);
+  const find = (re: number, im: number): number => {
+    probe[0] = re;
+    probe[1] = im;
+    let h = Math.imul(probeBits[0]! ^ Math.imul(probeBits[1]!, 0x9e3779b1), 0x85ebca6b);
+    if (complex) h = Math.imul(h ^ probeBits[2]! ^ Math.imul(probeBits[3]!, 0x27d4eb2f), 0xc2b2ae35);
+    let s = (h ^ (h >>> 15)) & mask;
+    for (;;) {
+      const c = slots[s]!;
+      if (c === -1) break;
+      // Compare bit patterns so −0 and 0 stay distinct codes (products keep signs exactly).
+      const b = 2 * w * c;
+      if (bits[b] === probeBits[0] && bits[b + 1] === probeBits[1] && (!complex || (bits[b + 2] === probeBits[2] && bits[b + 3] === probeBits[3]))) return c;
+      s = (s + 1) & mask;
+    }
+    if (count === MAX_CODES) return -1;
+    slots[s] = count;
+    table[w * count] = re;
+    if (complex) table[w * count + 1] = im;
+    return count++;
+  };
+  let at = 0;
+  // Runs of equal values are common (a lattice model has one hopping value): skip the hash for them.
+  let lastRe = NaN;
+  let lastIm = NaN;
+  let lastCode = -1;
+  for (const p of pieces) {
+    for (let e = 0; e < p.cols.length; e++) {
+      const re = complex ? p.values[2 * e]! : p.values[e]!;
+      const im = complex ? p.values[2 * e + 1]! : 0;
+      if (!Object.is(re, lastRe) || !Object.is(im, lastIm)) {
+        lastCode = find(re, im);
+        if (lastCode < 0) return undefined;
+        lastRe = re;
+        lastIm = im;
+      }
+      codeOf[at++] = lastCode;
+    }
+  }
+  const conjugate = new Uint16Array(Math.max(1, count));
+  for (let c = 0; c < count; c++) {
+    if (!complex) {
+      conjugate[c] = c;
+      continue;
+    }
+    const code = find(table[2 * c]!, -table[2 * c + 1]!);
+    if (code < 0) return undefined;
+    conjugate[c] = code;
+  }
+  return { codeOf, table: table.slice(0, w * count), conjugate, count };
+}
+
+/** y = H x over rows r0..r1 (vectors interleaved when complex). */
+export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0 = 0, r1 = m.dim): void {
+  const { rowPtr, cols, diag } = m;
+  if (!m.complex) {
+    if (m.codes) {
+      const codes = m.codes;
+      const table = m.table!;
+      for (let r = r0; r < r1; r++) {
+        let s = diag[r]! * x[r]!;
+        for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) s += table[codes[e]!]! * x[cols[e]!]!;
+        y[r] = s;
+      }
+    } else {
+      const values = m.values!;
+      for (let r = r0; r < r1; r++) {
+        let s = diag[r]! * x[r]!;
+        for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) s += values[e]! * x[cols[e]!]!;
+        y[r] = s;
+      }
+    }
+    return;
+  }
+  // Complex: entries as (re, im) pairs, from the table or the values.
+  const pairs = m.codes ? m.table! : m.values!;
+  const codes = m.codes;
+  for (let r = r0; r < r1; r++) {
+    const d = diag[2 * r]!;
+    let sr = d * x[2 * r]!;
+    let si = d * x[2 * r + 1]!;
+    for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) {
+      const v = 2 * (codes ? codes[e]! : e);
+      const c = 2 * cols[e]!;
+      const vr = pairs[v]!;
+      const vi = pairs[v + 1]!;
+      const xr = x[c]!;
+      const xi = x[c + 1]!;
+      sr += vr * xr - vi * xi;
+      si += vr * xi + vi * xr;
+    }
+    y[2 * r] = sr;
+    y[2 * r + 1] = si;
+  }
+}
+
+/** The classic CSR form (diagonal inside each row, zero diagonals not stored), for export and tests. */
+export function toSparseMatrix(m: StoredHamiltonian): SparseMatrix {
+  const { dim, complex } = m;
+  const w = complex ? 2 : 1;
+  const hasDiag = (r: number): boolean => (complex ? m.diag[2 * r] !== 0 || m.diag[2 * r + 1] !== 0 : m.diag[r] !== 0);
+  const rowPtr = new Float64Array(dim + 1);
+  let at = 0;
+  for (let r = 0; r < dim; r++) {
+    rowPtr[r] = at;
+    at += m.rowPtr[r + 1]! - m.rowPtr[r]! + (hasDiag(r) ? 1 : 0);
+  }
+  rowPtr[dim] = at;
+  const cols = new Int32Array(at);
+  const values = new Float64Array(w * at);
+  const pairs = m.codes ? m.table! : m.values!;
+  for (let r = 0; r < dim; r++) {
+    let pos = rowPtr[r]!;
+    let diagDone = !hasDiag(r);
+    for (let e = m.rowPtr[r]!; e <= m.rowPtr[r + 1]!; e++) {
+      // The diagonal goes before the first column above it.
+      if (!diagDone && (e === m.rowPtr[r + 1]! || m.cols[e]! > r)) {
+        cols[pos] = r;
+        for (let k = 0; k < w; k++) values[w * pos + k] = m.diag[w * r + k]!;
+        pos++;
+        diagDone = true;
+      }
+      if (e === m.rowPtr[r + 1]!) break;
+      const v = m.codes ? m.codes[e]! : e;
+      cols[pos] = m.cols[e]!;
+      for (let k = 0; k < w; k++) values[w * pos + k] = pairs[w * v + k]!;
+      pos++;
+    }
+  }
+  return { dim, complex, rowPtr, cols, values };
+}

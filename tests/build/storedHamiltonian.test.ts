@@ -1,0 +1,119 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import type { UpperPiece } from '../../src/build/projectedHamiltonian.js';
+import { toDense } from '../../src/build/sparseMatrix.js';
+import { applyStoredRows, storedFromPieces, storedNonzeros, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
+import { seededUniform } from '../../src/util/random.js';
+
+/**
+ * Random upper triangles (diagonal plus entries right of it) split into row pieces, with values
+ * drawn from a few levels (coded storage) or continuous (plain doubles when there are too many).
+ */
+function randomPieces(dim: number, complex: boolean, seed: number, levels: number, density: number): UpperPiece[] {
+  const rng = seededUniform(seed);
+  const value = (): number => (levels > 0 ? Math.floor(rng.next() * levels) - levels / 2 : rng.next() - 0.5);
+  const pieces: UpperPiece[] = [];
+  const cuts = [0, Math.floor(dim / 3), Math.floor((2 * dim) / 3), dim];
+  for (let p = 0; p < 3; p++) {
+    const [r0, r1] = [cuts[p]!, cuts[p + 1]!];
+    const cols: number[] = [];
+    const values: number[] = [];
+    const rowEnd: number[] = [];
+    const diag: number[] = [];
+    for (let r = r0; r < r1; r++) {
+      diag.push(rng.next() < 0.2 ? 0 : value());
+      if (complex) diag.push(0);
+      for (let c = r + 1; c < dim; c++) {
+        if (rng.next() >= density) continue;
+        cols.push(c);
+        values.push(value());
+        if (complex) values.push(value());
+      }
+      rowEnd.push(cols.length);
+    }
+    pieces.push({ r0, r1, diag: Float64Array.from(diag), rowEnd: Int32Array.from(rowEnd), cols: Int32Array.from(cols), values: Float64Array.from(values) });
+  }
+  return pieces;
+}
+
+/** The Hermitian matrix the pieces describe, written out directly (upper, its conjugate mirror, diagonal). */
+function denseOf(dim: number, complex: boolean, pieces: UpperPiece[]): { re: Float64Array; im: Float64Array } {
+  const re = new Float64Array(dim * dim);
+  const im = new Float64Array(dim * dim);
+  for (const p of pieces) {
+    let e = 0;
+    for (let r = p.r0; r < p.r1; r++) {
+      re[r * dim + r] = complex ? p.diag[2 * (r - p.r0)]! : p.diag[r - p.r0]!;
+      for (; e < p.rowEnd[r - p.r0]!; e++) {
+        const c = p.cols[e]!;
+        const vr = complex ? p.values[2 * e]! : p.values[e]!;
+        const vi = complex ? p.values[2 * e + 1]! : 0;
+        re[r * dim + c] = vr;
+        im[r * dim + c] = vi;
+        re[c * dim + r] = vr;
+        im[c * dim + r] = -vi;
+      }
+    }
+  }
+  return { re, im };
+}
+
+describe('storedHamiltonian', () => {
+  it('storedFromPieces and toSparseMatrix give the Hermitian completion, coded or plain', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 30 }), fc.boolean(), fc.integer({ min: 1, max: 1e6 }), fc.constantFrom(0, 3, 300), (dim, complex, seed, levels) => {
+        const pieces = randomPieces(dim, complex, seed, levels, 0.3);
+        const stored = storedFromPieces(dim, complex, pieces);
+        const want = denseOf(dim, complex, pieces);
+        const got = toDense(toSparseMatrix(stored));
+        // `+ 0` folds −0 into 0: the sign of a zero imaginary part is not part of the matrix.
+        expect(Array.from(got.re, (v) => v + 0)).toEqual(Array.from(want.re, (v) => v + 0));
+        expect(Array.from(got.im, (v) => v + 0)).toEqual(Array.from(want.im, (v) => v + 0));
+        // Zero diagonals are not counted, as in the CSR form.
+        expect(storedNonzeros(stored)).toBe(toSparseMatrix(stored).rowPtr[dim]);
+        // Integer levels give few distinct values: codes (1 byte up to 256 values).
+        if (levels === 3) expect(stored.codes).toBeInstanceOf(Uint8Array);
+      }),
+      { numRuns: 120, seed: 7 },
+    );
+  });
+
+  it('applyStoredRows equals the dense product, for any row split', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 2, max: 30 }), fc.boolean(), fc.integer({ min: 1, max: 1e6 }), fc.constantFrom(0, 3), (dim, complex, seed, levels) => {
+        const pieces = randomPieces(dim, complex, seed, levels, 0.4);
+        const stored = storedFromPieces(dim, complex, pieces);
+        const m = denseOf(dim, complex, pieces);
+        const w = complex ? 2 : 1;
+        const rng = seededUniform(seed + 3);
+        const x = Float64Array.from({ length: w * dim }, () => rng.next() - 0.5);
+        const y = new Float64Array(w * dim);
+        const split = Math.floor(dim / 2);
+        applyStoredRows(stored, x, y, 0, split);
+        applyStoredRows(stored, x, y, split, dim);
+        for (let i = 0; i < dim; i++) {
+          let re = 0;
+          let im = 0;
+          for (let j = 0; j < dim; j++) {
+            const xr = x[w * j]!;
+            const xi = complex ? x[w * j + 1]! : 0;
+            re += m.re[i * dim + j]! * xr - m.im[i * dim + j]! * xi;
+            im += m.re[i * dim + j]! * xi + m.im[i * dim + j]! * xr;
+          }
+          expect(Math.abs(y[w * i]! - re)).toBeLessThan(1e-12);
+          if (complex) expect(Math.abs(y[w * i + 1]! - im)).toBeLessThan(1e-12);
+        }
+      }),
+      { numRuns: 120, seed: 8 },
+    );
+  });
+
+  it('storedFromPieces falls back to plain doubles past 65536 distinct values', () => {
+    const pieces = randomPieces(420, false, 5, 0, 0.9);
+    const stored = storedFromPieces(420, false, pieces);
+    expect(stored.codes).toBeUndefined();
+    expect(stored.values).toBeInstanceOf(Float64Array);
+    const few = storedFromPieces(420, false, randomPieces(420, false, 5, 300, 0.9));
+    expect(few.codes).toBeInstanceOf(Uint16Array);
+  });
+});
