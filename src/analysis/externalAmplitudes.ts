@@ -1,5 +1,5 @@
 import type { Basis } from '../bits/basis.js';
-import { hashConfig } from '../bits/hashIndex.js';
+import { hashConfig, lookupConfigHashed } from '../bits/hashIndex.js';
 import { popcount32 } from '../bits/packed.js';
 import type { SectorFlipTest } from '../build/projectedHamiltonian.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
@@ -227,7 +227,6 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
   let outside = 0;
   const nWords = basis.nWords;
   const { states, slots: bSlots } = basis;
-  const bMask = bSlots.length - 1;
   const flipMasks = plan.groups.flipMasks;
   // Connectivity weights are real even for a complex Hamiltonian.
   const complex = plan.groups.complex && src.mode === 'amplitude';
@@ -307,24 +306,8 @@ export function mergeFlips(src: FlipSource, records: FlipRecords, offsets: Float
       for (let k = 0; k < nWords; k++) key[k] = states[ro + k]! ^ flipMasks[go + k]!;
       const h = hashes[j - first]!;
       const bit = (h >>> 5) & bloomMask;
-      let slot = h & bMask;
       // Most targets are not in the basis: the small bitset answers that from cache.
-      let inside = false;
-      if (((bloom[bit >>> 5]! >>> (bit & 31)) & 1) !== 0) {
-        for (;;) {
-          const idx = bSlots[slot]!;
-          if (idx === -1) break;
-          const base = idx * nWords;
-          let k = 0;
-          while (k < nWords && states[base + k] === key[k]) k++;
-          if (k === nWords) {
-            inside = true;
-            break;
-          }
-          slot = (slot + 1) & bMask;
-        }
-      }
-      if (inside) continue;
+      if (((bloom[bit >>> 5]! >>> (bit & 31)) & 1) !== 0 && lookupConfigHashed(states, bSlots, nWords, key, 0, h >>> 0) >= 0) continue;
       // H_aa from the source row's H_bb: the diagonal terms anticommuting with the flip change sign.
       let d = rowDiagonal[r]!;
       for (let q = shiftStart[g]!; q < shiftStart[g + 1]!; q++) {
