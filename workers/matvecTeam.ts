@@ -10,7 +10,7 @@ for (;;) {
   while (Atomics.load(ctrl, 0) === seen) Atomics.wait(ctrl, 0, seen);
   seen = Atomics.load(ctrl, 0);
   if (seen < 0) break;
-  applyTeamRows(spec, spec.member);
+  applyTeamRows(spec, spec.member, Atomics.load(ctrl, 2), Atomics.load(ctrl, 3));
   Atomics.add(ctrl, 1, 1);
   Atomics.notify(ctrl, 1);
 }

@@ -7,9 +7,10 @@ import type { LinearOperator } from '../solvers/lanczos.js';
 import { workerScript } from '../util/packageRoot.js';
 
 /**
- * What every team member needs, all on SharedArrayBuffers: the operator (a stored CSR matrix, or
- * the basis and row-scan plan for matrix-free products), the input vector, one output vector per
- * member for matrix-free products (whose mirrored updates cross row ranges), and the row split.
+ * What every team member needs, all on SharedArrayBuffers: the operator (a stored matrix, or the
+ * basis and row-scan plan for matrix-free products), the team's vectors (two staging vectors for
+ * callers' own arrays, then the ones handed out by `vector()`), one output vector per member for
+ * matrix-free products (whose mirrored updates cross row ranges), and the row split.
  */
 export interface TeamSpec {
   kind: 'stored' | 'free';
@@ -18,22 +19,26 @@ export interface TeamSpec {
   matrix?: StoredHamiltonian;
   basis?: Basis;
   plan?: RowScanPlan;
-  x: Float64Array;
+  vectors: Float64Array[];
   ys: Float64Array[];
   bounds: Int32Array;
+  /** Int32 slots: generation, members done, input vector index, output vector index. */
   control: SharedArrayBuffer;
 }
 
-/** Apply member m's rows (the main thread is member 0). */
-export function applyTeamRows(spec: TeamSpec, m: number): void {
+/** Team vectors handed out by `vector()`: what the two-pass Lanczos holds at once. */
+const HANDED_OUT = 6;
+
+/** Apply member m's rows (the main thread is member 0) from team vector xi into team vector yi. */
+export function applyTeamRows(spec: TeamSpec, m: number, xi: number, yi: number): void {
   const r0 = spec.bounds[m]!;
   const r1 = spec.bounds[m + 1]!;
   if (spec.kind === 'stored') {
-    applyStoredRows(spec.matrix!, spec.x, spec.ys[0]!, r0, r1);
+    applyStoredRows(spec.matrix!, spec.vectors[xi]!, spec.vectors[yi]!, r0, r1);
   } else {
     const y = spec.ys[m]!;
     y.fill(0);
-    applyUpperRows(spec.basis!, spec.plan!, r0, r1, spec.x, y);
+    applyUpperRows(spec.basis!, spec.plan!, r0, r1, spec.vectors[xi]!, y);
   }
 }
 
@@ -41,7 +46,8 @@ const sharedVector = (len: number): Float64Array => new Float64Array(new SharedA
 
 /**
  * A synchronous operator whose products run on `threads` threads (this one and threads−1 workers)
- * over shared memory, woken through Atomics, so Lanczos stays a plain loop. Close it when done.
+ * over shared memory, woken through Atomics, so Lanczos stays a plain loop. Vectors from
+ * `vector()` are applied in place; other arrays are copied through staging vectors. Close it when done.
  */
 export class MatvecTeam implements LinearOperator {
   readonly dim: number;
@@ -49,13 +55,15 @@ export class MatvecTeam implements LinearOperator {
   private readonly spec: TeamSpec;
   private readonly workers: Worker[] = [];
   private readonly ctrl: Int32Array;
+  private handedOut = 0;
 
-  constructor(spec: Omit<TeamSpec, 'x' | 'ys' | 'bounds' | 'control'>, threads: number) {
+  constructor(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'control'>, threads: number) {
     const len = spec.complex ? 2 * spec.dim : spec.dim;
     const members = Math.max(1, Math.min(threads, Math.ceil(spec.dim / 2000)));
-    const control = new SharedArrayBuffer(8);
-    const ys = spec.kind === 'stored' ? [sharedVector(len)] : Array.from({ length: members }, () => sharedVector(len));
-    this.spec = { ...spec, x: sharedVector(len), ys, bounds: splitRows(spec, members), control };
+    const control = new SharedArrayBuffer(16);
+    const ys = spec.kind === 'stored' ? [] : Array.from({ length: members }, () => sharedVector(len));
+    const vectors = Array.from({ length: 2 + HANDED_OUT }, () => sharedVector(len));
+    this.spec = { ...spec, vectors, ys, bounds: splitRows(spec, members), control };
     this.ctrl = new Int32Array(control);
     this.dim = spec.dim;
     this.complex = spec.complex;
@@ -64,19 +72,40 @@ export class MatvecTeam implements LinearOperator {
     }
   }
 
+  vector(): Float64Array {
+    const len = this.complex ? 2 * this.dim : this.dim;
+    if (this.handedOut === HANDED_OUT) return new Float64Array(len);
+    const v = this.spec.vectors[2 + this.handedOut++]!;
+    v.fill(0);
+    return v;
+  }
+
   apply(x: Float64Array, y: Float64Array): void {
     const members = this.workers.length + 1;
-    this.spec.x.set(x);
+    const { vectors, ys } = this.spec;
+    let xi = vectors.indexOf(x);
+    if (xi < 0) {
+      vectors[0]!.set(x);
+      xi = 0;
+    }
+    const stored = this.spec.kind === 'stored';
+    let yi = stored ? vectors.indexOf(y) : 1;
+    if (yi < 0 || yi === xi) yi = 1;
+    Atomics.store(this.ctrl, 2, xi);
+    Atomics.store(this.ctrl, 3, yi);
     Atomics.store(this.ctrl, 1, 0);
     Atomics.add(this.ctrl, 0, 1);
     Atomics.notify(this.ctrl, 0);
-    applyTeamRows(this.spec, 0);
+    applyTeamRows(this.spec, 0, xi, yi);
     for (;;) {
       const done = Atomics.load(this.ctrl, 1);
       if (done >= members - 1) break;
       Atomics.wait(this.ctrl, 1, done);
     }
-    const ys = this.spec.ys;
+    if (stored) {
+      if (vectors[yi] !== y) y.set(vectors[yi]!);
+      return;
+    }
     y.set(ys[0]!);
     for (let m = 1; m < ys.length; m++) {
       const part = ys[m]!;
@@ -93,7 +122,7 @@ export class MatvecTeam implements LinearOperator {
 }
 
 /** Row bounds per member: equal nonzeros for a stored matrix, equal rows otherwise. */
-function splitRows(spec: Omit<TeamSpec, 'x' | 'ys' | 'bounds' | 'control'>, members: number): Int32Array {
+function splitRows(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'control'>, members: number): Int32Array {
   const b = new Int32Array(members + 1);
   b[members] = spec.dim;
   if (spec.kind === 'stored' && spec.matrix) {

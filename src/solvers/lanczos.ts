@@ -11,6 +11,11 @@ export interface LinearOperator {
   dim: number;
   complex: boolean;
   apply(x: Float64Array, y: Float64Array): void;
+  /**
+   * A zeroed vector the operator applies to and into without copying (e.g. one shared with its
+   * worker threads); solvers that hold few vectors take theirs from here when it exists.
+   */
+  vector?(): Float64Array;
 }
 
 /** Options of `lanczos`; defaults live in `LANCZOS_DEFAULTS`. */

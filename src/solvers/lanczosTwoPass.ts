@@ -34,65 +34,60 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
   let y: Float64Array | undefined;
   let scaleSeen = 0;
   let residualEstimate = Infinity;
+  // Vectors from the operator when it offers them (shared with its threads: no copies per product).
+  const vector = (): Float64Array => op.vector?.() ?? new Float64Array(len);
+  let vPrev = vector();
+  let v = vector();
+  let w = vector();
   // Pass 1: coefficients only.
-  {
-    let vPrev = new Float64Array(len);
-    let v = Float64Array.from(start);
-    let w = new Float64Array(len);
-    let b = 0;
-    for (let j = 0; j < opts.maxIterations && j < op.dim; j++) {
-      op.apply(v, w);
-      matvecs++;
-      if (j > 0) axpy(-b, 0, vPrev, w, op.complex);
-      const a = dot(v, w, op.complex);
-      axpy(-a, 0, v, w, op.complex);
-      alpha.push(a);
-      b = norm(w);
-      scaleSeen = Math.max(scaleSeen, Math.abs(a) + b);
-      const last = j + 1 === op.dim || b <= 1e-14 * scaleSeen;
-      if (last || j < 4 || j % 5 === 4 || j + 1 === opts.maxIterations) {
-        const ev = tridiagonalLowest(alpha, beta);
-        y = ev.vector;
-        opts.onProgress?.({ matvecs, residual: Math.abs(b * y[j]!), energy: ev.value });
-        scaleSeen = Math.max(scaleSeen, ev.maxAbs);
-        residualEstimate = last ? 0 : Math.abs(b * y[j]!);
-        if (residualEstimate <= opts.tol * scaleSeen) break;
-      }
-      if (last) break;
-      beta.push(b);
-      scale(w, 1 / b);
-      const t = vPrev;
-      vPrev = v;
-      v = w;
-      w = t;
+  v.set(start);
+  for (let j = 0; j < opts.maxIterations && j < op.dim; j++) {
+    op.apply(v, w);
+    matvecs++;
+    const { a, b } = lanczosStep(v, vPrev, w, j > 0 ? beta[j - 1]! : 0);
+    alpha.push(a);
+    scaleSeen = Math.max(scaleSeen, Math.abs(a) + b);
+    const last = j + 1 === op.dim || b <= 1e-14 * scaleSeen;
+    // The tridiagonal solve is cheap while it is small: test every step then, every fifth later.
+    if (last || j < CHECK_EVERY_STEP || j % 5 === 4 || j + 1 === opts.maxIterations) {
+      const ev = tridiagonalLowest(alpha, beta);
+      y = ev.vector;
+      opts.onProgress?.({ matvecs, residual: Math.abs(b * y[j]!), energy: ev.value });
+      scaleSeen = Math.max(scaleSeen, ev.maxAbs);
+      residualEstimate = last ? 0 : Math.abs(b * y[j]!);
+      if (residualEstimate <= opts.tol * scaleSeen) break;
     }
+    if (last) break;
+    beta.push(b);
+    scale(w, 1 / b);
+    const t = vPrev;
+    vPrev = v;
+    v = w;
+    w = t;
   }
   const steps = alpha.length;
   if (!y || y.length !== steps) {
     y = tridiagonalLowest(alpha, beta).vector;
   }
-  // Pass 2: replay the recurrence and accumulate x = Σ y_j v_j.
-  const x = new Float64Array(len);
-  {
-    let vPrev = new Float64Array(len);
-    let v = Float64Array.from(start);
-    let w = new Float64Array(len);
-    for (let j = 0; j < steps; j++) {
-      axpy(y[j]!, 0, v, x, op.complex);
-      if (j + 1 === steps) break;
-      op.apply(v, w);
-      matvecs++;
-      if (j > 0) axpy(-beta[j - 1]!, 0, vPrev, w, op.complex);
-      axpy(-alpha[j]!, 0, v, w, op.complex);
-      scale(w, 1 / beta[j]!);
-      const t = vPrev;
-      vPrev = v;
-      v = w;
-      w = t;
+  // Pass 2: replay the recurrence with the same coefficients and accumulate x = Σ y_j v_j.
+  const x = vector();
+  vPrev.fill(0);
+  v.set(start);
+  for (let j = 0; j < steps; j++) {
+    if (j + 1 === steps) {
+      axpy(y[j]!, 0, v, x, false);
+      break;
     }
+    op.apply(v, w);
+    matvecs++;
+    replayStep(v, vPrev, w, x, alpha[j]!, j > 0 ? beta[j - 1]! : 0, beta[j]!, y[j]!);
+    const t = vPrev;
+    vPrev = v;
+    v = w;
+    w = t;
   }
   scale(x, 1 / norm(x));
-  const hx = new Float64Array(len);
+  const hx = vPrev;
   op.apply(x, hx);
   matvecs++;
   const energy = dot(x, hx, op.complex);
@@ -109,6 +104,43 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
     restarts: 0,
     scale: scaleFinal,
   };
+}
+
+/** Steps below which pass 1 tests convergence after every product. */
+const CHECK_EVERY_STEP = 60;
+
+/**
+ * One Lanczos step once w = H v: α = ⟨v|H v − β v_prev⟩ (both inner products in one sweep), then
+ * w ← w − α v − β v_prev and its norm in a second sweep. Real arithmetic on interleaved complex
+ * vectors is exact here: α and β are real for a Hermitian operator.
+ */
+function lanczosStep(v: Float64Array, vPrev: Float64Array, w: Float64Array, b: number): { a: number; b: number } {
+  const n = v.length;
+  let vw = 0;
+  let vp = 0;
+  for (let i = 0; i < n; i++) {
+    const vi = v[i]!;
+    vw += vi * w[i]!;
+    vp += vi * vPrev[i]!;
+  }
+  const a = vw - b * vp;
+  let ss = 0;
+  for (let i = 0; i < n; i++) {
+    const wi = w[i]! - a * v[i]! - b * vPrev[i]!;
+    w[i] = wi;
+    ss += wi * wi;
+  }
+  return { a, b: Math.sqrt(ss) };
+}
+
+/** The replayed step in one sweep: x += y_j v, then w ← (w − α v − β v_prev) / β_next. */
+function replayStep(v: Float64Array, vPrev: Float64Array, w: Float64Array, x: Float64Array, a: number, b: number, bNext: number, yj: number): void {
+  const inv = 1 / bNext;
+  for (let i = 0, n = v.length; i < n; i++) {
+    const vi = v[i]!;
+    x[i]! += yj * vi;
+    w[i] = (w[i]! - a * vi - b * vPrev[i]!) * inv;
+  }
 }
 
 /** Lowest eigenpair of the symmetric tridiagonal matrix (alpha on the diagonal, beta beside it). */
