@@ -32,7 +32,7 @@ export { selectSubspace, type SubspaceReport, type SampleAccount, type GroupAcco
 export { PauliSumBuilder, groupByFlipMask, isComplexHamiltonian, formatPauliOps, type PauliSum, type PauliTerm, type FlipGroups } from './operators/pauliSum.js';
 export { makeIntegrals, setOneElectron, setTwoElectron, eriIndex, countNonzeroIntegrals, MAX_ORBITALS, type Integrals } from './operators/integrals.js';
 
-export { buildProjectedHamiltonian, buildUpperRows, assembleHermitian, sectorFlipTest, type UpperPiece, type SectorFlipTest } from './build/projectedHamiltonian.js';
+export { buildProjectedHamiltonian, buildUpperRows, assembleHermitian, sectorFlipTest, type UpperPiece, type SectorFlipTest, type BuildRowsOptions } from './build/projectedHamiltonian.js';
 export { rowScanPlan, type RowScanPlan } from './build/rowScan.js';
 export { storedFromPieces, applyStoredRows, storedNonzeros, storedBytes, toSparseMatrix, type StoredHamiltonian } from './build/storedHamiltonian.js';
 export { buildDeterminantHamiltonian, buildDeterminantRows, countDeterminantRows, pieceMatrix, prepareDeterminants, determinantRow, determinantDiagonal, determinantNonzeroBound, forEachRow, RowSink, type DeterminantContext } from './build/determinantHamiltonian.js';

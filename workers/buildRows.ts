@@ -9,8 +9,10 @@ export interface BuildRowsTask {
   plan: RowScanPlan;
   r0: number;
   r1: number;
+  upperPerRow: number;
+  shared: boolean;
 }
 
 export default function buildRowsTask(task: BuildRowsTask): UpperPiece {
-  return buildUpperRows(task.basis, task.plan, task.r0, task.r1);
+  return buildUpperRows(task.basis, task.plan, task.r0, task.r1, { upperPerRow: task.upperPerRow, shared: task.shared });
 }

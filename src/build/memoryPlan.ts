@@ -1,7 +1,7 @@
 import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
-import { rowScratch, scanRow, scanTables, type RowScanPlan } from './rowScan.js';
+import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 
 /** How H_S will be applied and what that costs, decided before anything large is allocated. */
 export interface MemoryPlan {
@@ -52,16 +52,13 @@ export function planMemory(basis: Basis, scan: RowScanPlan, opts: { budgetBytes?
   const dim = basis.dim;
   const budget = opts.budgetBytes ?? defaultMemoryBudget();
   const c = scan.complex ? 2 : 1;
-  const sample = Math.min(dim, 2000);
-  const scratch = rowScratch(scan);
-  const tables = scanTables(scan);
-  let upper = 0;
-  for (let s = 0; s < sample; s++) upper += scanRow(scan, basis, tables, Math.floor((s * dim) / sample), scratch);
-  const upperEstimate = Math.ceil((upper / Math.max(1, sample)) * dim);
+  const upperEstimate = Math.ceil(upperPerRowEstimate(basis, scan) * dim);
   const nnz = 2 * upperEstimate + dim;
   const basisBytes = basis.states.byteLength + basis.slots.byteLength + basis.filter.byteLength + basis.counts.byteLength;
-  // Stored: the final CSR plus the upper-triangle pieces it is assembled from.
-  const matrixBytes = nnz * (4 + 8 * c) + (dim + 1) * 8 + upperEstimate * (4 + 8 * c);
+  // Stored (see storedHamiltonian.ts): both off-diagonal triangles with 32-bit columns, valued as
+  // doubles in case the values are too varied for codes, the diagonal, the row starts, and the
+  // upper-triangle pieces it is assembled from.
+  const matrixBytes = 2 * upperEstimate * (4 + 8 * c) + dim * 8 * c + (dim + 1) * 8 + upperEstimate * (4 + 8 * c) + dim * 8 * c;
   const vectorBytes = dim * 8 * c;
   const threads = Math.max(1, opts.threads ?? 1);
   const solverBytes = solverVectors(dim, opts.eigs ?? 1) * vectorBytes;

@@ -3,7 +3,7 @@ import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
 import { runInPool, threadPool } from '../parallel/threadPool.js';
 import { buildUpperRows, sectorFlipTest, type UpperPiece } from './projectedHamiltonian.js';
-import { rowScanPlan } from './rowScan.js';
+import { rowScanPlan, upperPerRowEstimate } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
 
 /** Rows per task below which one thread is faster than shipping work to the pool. */
@@ -29,6 +29,7 @@ export async function buildProjectedHamiltonianParallel(
     return storedFromPieces(basis.dim, groups.complex, [piece]);
   }
   const pool = threadPool('buildRows', threads);
+  const upperPerRow = upperPerRowEstimate(basis, plan);
   const chunks = Math.min(64, threads * 8);
   const step = Math.ceil(basis.dim / chunks);
   // Only the shared arrays travel; `counts` stays on this thread.
@@ -38,7 +39,7 @@ export async function buildProjectedHamiltonianParallel(
   for (let r0 = 0; r0 < basis.dim; r0 += step) {
     const r1 = Math.min(basis.dim, r0 + step);
     tasks.push(
-      runInPool<unknown, UpperPiece>(pool, { basis: view, plan, r0, r1 }).then((p) => {
+      runInPool<unknown, UpperPiece>(pool, { basis: view, plan, r0, r1, upperPerRow, shared: true }).then((p) => {
         done += p.r1 - p.r0;
         onProgress?.(done, basis.dim);
         return p;

@@ -74,18 +74,29 @@ export interface UpperPiece {
   values: Float64Array;
 }
 
+/** Sizing and placement of one piece's arrays. */
+export interface BuildRowsOptions {
+  /** Expected upper entries per row (see `upperPerRowEstimate`), to size the arrays once. */
+  upperPerRow?: number;
+  /** Put the arrays on SharedArrayBuffers (built on a worker thread, read by the caller). */
+  shared?: boolean;
+}
+
 /**
  * Build the upper-triangle rows r0..r1 (plus the diagonal) of H_S = P H P; each unordered pair
  * is looked up once and `assembleHermitian` mirrors it.
  */
-export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: number): UpperPiece {
+export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: number, opts: BuildRowsOptions = {}): UpperPiece {
   const complex = plan.complex;
   const rows = r1 - r0;
-  let cap = Math.max(64, rows * 4);
-  let cols = new Int32Array(cap);
-  let values = new Float64Array(complex ? 2 * cap : cap);
-  const diag = new Float64Array(complex ? 2 * rows : rows);
-  const rowEnd = new Int32Array(rows);
+  const w = complex ? 2 : 1;
+  // Shared buffers cross back to the calling thread without a copy.
+  const alloc = (bytes: number): ArrayBufferLike => (opts.shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(bytes));
+  let cap = Math.max(64, Math.ceil(rows * (opts.upperPerRow ?? 4) * 1.25) + 64);
+  let cols = new Int32Array(alloc(cap * 4));
+  let values = new Float64Array(alloc(w * cap * 8));
+  const diag = new Float64Array(alloc(w * rows * 8));
+  const rowEnd = new Int32Array(alloc(rows * 4));
   const s = rowScratch(plan);
   const tables = scanTables(plan);
   let nnz = 0;
@@ -97,10 +108,10 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
     } else diag[r - r0] = s.diag[0]!;
     if (nnz + hits > cap) {
       while (nnz + hits > cap) cap *= 2;
-      const c2 = new Int32Array(cap);
+      const c2 = new Int32Array(alloc(cap * 4));
       c2.set(cols);
       cols = c2;
-      const v2 = new Float64Array(complex ? 2 * cap : cap);
+      const v2 = new Float64Array(alloc(w * cap * 8));
       v2.set(values);
       values = v2;
     }
@@ -115,7 +126,7 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
     sortRow(cols, values, rowStart, nnz, complex);
     rowEnd[r - r0] = nnz;
   }
-  return { r0, r1, diag, rowEnd, cols: cols.slice(0, nnz), values: values.slice(0, complex ? 2 * nnz : nnz) };
+  return { r0, r1, diag, rowEnd, cols: cols.subarray(0, nnz), values: values.subarray(0, w * nnz) };
 }
 
 /**

@@ -363,3 +363,14 @@ function elementOf(plan: RowScanPlan, group: number, b: Uint32Array, out: Float6
 export function scanTables(plan: RowScanPlan): Uint32Array {
   return linearHashTables(plan.nWords);
 }
+
+/** Mean number of upper-triangle entries per row, from `sample` rows spread over the basis. */
+export function upperPerRowEstimate(basis: Basis, plan: RowScanPlan, sample = 2000): number {
+  const n = Math.min(basis.dim, sample);
+  if (n === 0) return 0;
+  const scratch = rowScratch(plan);
+  const tables = scanTables(plan);
+  let upper = 0;
+  for (let s = 0; s < n; s++) upper += scanRow(plan, basis, tables, Math.floor((s * basis.dim) / n), scratch);
+  return upper / n;
+}

@@ -1,4 +1,4 @@
-import { Worker } from 'node:worker_threads';
+import { MessageChannel, Worker, type MessagePort } from 'node:worker_threads';
 import type { Basis } from '../bits/basis.js';
 import { applyUpperRows } from '../build/projectedHamiltonian.js';
 import type { RowScanPlan } from '../build/rowScan.js';
@@ -19,6 +19,7 @@ export interface TeamSpec {
   matrix?: StoredHamiltonian;
   basis?: Basis;
   plan?: RowScanPlan;
+  /** Grows as vectors are made; members learn of new ones through their port before each product. */
   vectors: Float64Array[];
   ys: Float64Array[];
   bounds: Int32Array;
@@ -27,7 +28,7 @@ export interface TeamSpec {
 }
 
 /** Team vectors handed out by `vector()`: what the two-pass Lanczos holds at once. */
-const HANDED_OUT = 6;
+const HANDED_OUT = 4;
 
 /** Apply member m's rows (the main thread is member 0) from team vector xi into team vector yi. */
 export function applyTeamRows(spec: TeamSpec, m: number, xi: number, yi: number): void {
@@ -47,7 +48,8 @@ const sharedVector = (len: number): Float64Array => new Float64Array(new SharedA
 /**
  * A synchronous operator whose products run on `threads` threads (this one and threads−1 workers)
  * over shared memory, woken through Atomics, so Lanczos stays a plain loop. Vectors from
- * `vector()` are applied in place; other arrays are copied through staging vectors. Close it when done.
+ * `vector()` are applied in place; other arrays are copied through staging vectors, made when
+ * first needed. Close it when done.
  */
 export class MatvecTeam implements LinearOperator {
   readonly dim: number;
@@ -55,29 +57,45 @@ export class MatvecTeam implements LinearOperator {
   private readonly spec: TeamSpec;
   private readonly workers: Worker[] = [];
   private readonly ctrl: Int32Array;
+  private readonly ports: MessagePort[] = [];
   private handedOut = 0;
+  /** Team indices of the staging vectors (input, output), −1 until made. */
+  private staging = [-1, -1];
 
   constructor(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'control'>, threads: number) {
     const len = spec.complex ? 2 * spec.dim : spec.dim;
     const members = Math.max(1, Math.min(threads, Math.ceil(spec.dim / 2000)));
     const control = new SharedArrayBuffer(16);
     const ys = spec.kind === 'stored' ? [] : Array.from({ length: members }, () => sharedVector(len));
-    const vectors = Array.from({ length: 2 + HANDED_OUT }, () => sharedVector(len));
-    this.spec = { ...spec, vectors, ys, bounds: splitRows(spec, members), control };
+    this.spec = { ...spec, vectors: [], ys, bounds: splitRows(spec, members), control };
     this.ctrl = new Int32Array(control);
     this.dim = spec.dim;
     this.complex = spec.complex;
     for (let m = 1; m < members; m++) {
-      this.workers.push(new Worker(workerScript('matvecTeam'), { workerData: { ...this.spec, member: m } }));
+      const { port1, port2 } = new MessageChannel();
+      this.ports.push(port1);
+      this.workers.push(new Worker(workerScript('matvecTeam'), { workerData: { ...this.spec, member: m, port: port2 }, transferList: [port2] }));
     }
   }
 
+  /** A new shared vector, announced to every member; returns its team index. */
+  private addVector(): number {
+    const v = sharedVector(this.complex ? 2 * this.dim : this.dim);
+    this.spec.vectors.push(v);
+    for (const p of this.ports) p.postMessage(v);
+    return this.spec.vectors.length - 1;
+  }
+
   vector(): Float64Array {
-    const len = this.complex ? 2 * this.dim : this.dim;
-    if (this.handedOut === HANDED_OUT) return new Float64Array(len);
-    const v = this.spec.vectors[2 + this.handedOut++]!;
-    v.fill(0);
-    return v;
+    if (this.handedOut === HANDED_OUT) return new Float64Array(this.complex ? 2 * this.dim : this.dim);
+    this.handedOut++;
+    return this.spec.vectors[this.addVector()]!;
+  }
+
+  /** Team index of staging vector k (0 input, 1 output), made on first use. */
+  private stagingIndex(k: 0 | 1): number {
+    if (this.staging[k]! < 0) this.staging[k] = this.addVector();
+    return this.staging[k]!;
   }
 
   apply(x: Float64Array, y: Float64Array): void {
@@ -85,12 +103,13 @@ export class MatvecTeam implements LinearOperator {
     const { vectors, ys } = this.spec;
     let xi = vectors.indexOf(x);
     if (xi < 0) {
-      vectors[0]!.set(x);
-      xi = 0;
+      xi = this.stagingIndex(0);
+      vectors[xi]!.set(x);
     }
     const stored = this.spec.kind === 'stored';
-    let yi = stored ? vectors.indexOf(y) : 1;
-    if (yi < 0 || yi === xi) yi = 1;
+    // Matrix-free members write their own outputs (ys); the index is then unused.
+    let yi = stored ? vectors.indexOf(y) : xi;
+    if (stored && (yi < 0 || yi === xi)) yi = this.stagingIndex(1);
     Atomics.store(this.ctrl, 2, xi);
     Atomics.store(this.ctrl, 3, yi);
     Atomics.store(this.ctrl, 1, 0);
@@ -117,6 +136,7 @@ export class MatvecTeam implements LinearOperator {
   close(): void {
     Atomics.store(this.ctrl, 0, -1);
     Atomics.notify(this.ctrl, 0);
+    for (const p of this.ports) p.close();
     for (const w of this.workers) void w.terminate();
   }
 }
