@@ -12,6 +12,7 @@ import { demoCommand } from './commands/demo.js';
 import { sweepCommand } from './commands/sweep.js';
 import type { CliIo } from './io.js';
 import { closeThreadPools } from '../parallel/threadPool.js';
+import { closeMatvecWorkers } from '../parallel/matvecTeam.js';
 
 /** Commands in the order `--help` lists them; each module adds one. */
 const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, sweepCommand, modelCommand, simulateCommand, exactCommand, demoCommand, krylovCommand, batchCommand, collectCommand];
@@ -38,7 +39,7 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
   } catch (e) {
     return reportError(e, io);
   } finally {
-    await closeThreadPools();
+    await Promise.all([closeThreadPools(), closeMatvecWorkers()]);
   }
 }
 

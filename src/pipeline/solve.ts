@@ -4,7 +4,7 @@ import { formatBitstring } from '../bits/packed.js';
 import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
-import { MatvecTeam } from '../parallel/matvecTeam.js';
+import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
 import { csrApplyRows, nonzeros, type SparseMatrix } from '../build/sparseMatrix.js';
@@ -289,6 +289,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   const eigs = settings.eigs ?? 1;
   const plan = planMemory(basis, groups, test, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
   const shared = basis.states.buffer instanceof SharedArrayBuffer;
+  // The product workers start now, so they are ready by the end of the build.
+  if (threads > 1 && shared) startMatvecWorkers(basis.dim, threads);
   let matrix: SparseMatrix | undefined;
   let op: LinearOperator;
   let team: MatvecTeam | undefined;
