@@ -66,9 +66,9 @@ export function startMatvecWorkers(dim: number, threads: number): void {
   }
 }
 
-/** Stop the idle member workers (a command calls this once when it ends). */
-export async function closeMatvecWorkers(): Promise<void> {
-  await Promise.all(idle.splice(0).map((w) => w.terminate()));
+/** Stop the idle member workers (a command calls this once when it ends); their teardown is not waited for. */
+export function closeMatvecWorkers(): void {
+  for (const w of idle.splice(0)) void w.terminate();
 }
 
 /**
