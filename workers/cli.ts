@@ -22,4 +22,7 @@ const status = await main(data.argv, {
 });
 watchPendingTemps(undefined);
 data.temps.close();
+// What went to this thread's own process.stdout/stderr (a progress bar, a Node warning) reaches the
+// main thread before the status, on which it flushes and exits without waiting for this thread.
+await Promise.all([process.stdout, process.stderr].map((s) => new Promise((done) => s.write('', done))));
 post({ status });

@@ -1,20 +1,34 @@
 import { Command, CommanderError } from 'commander';
 import { BitspanError, exitStatusFor } from '../errors.js';
 import { ERROR_FORMAT_ENV } from '../batch/runJob.js';
-import { batchCommand } from './commands/batch.js';
-import { collectCommand } from './commands/collect.js';
-import { krylovCommand } from './commands/krylov.js';
-import { solveCommand } from './commands/solve.js';
-import { modelCommand } from './commands/model.js';
-import { simulateCommand } from './commands/simulate.js';
-import { exactCommand } from './commands/exact.js';
-import { demoCommand } from './commands/demo.js';
-import { sweepCommand } from './commands/sweep.js';
 import type { CliIo } from './io.js';
 import { closeThreadPools } from '../parallel/threadPool.js';
+import { closeMatvecWorkers } from '../parallel/matvecTeam.js';
 
-/** Commands in the order `--help` lists them; each module adds one. */
-const COMMANDS: Array<(io: CliIo) => Command> = [solveCommand, sweepCommand, modelCommand, simulateCommand, exactCommand, demoCommand, krylovCommand, batchCommand, collectCommand];
+/** Commands in the order `--help` lists them, by name, each defined by its own module. */
+export const COMMANDS: ReadonlyArray<readonly [name: string, load: () => Promise<(io: CliIo) => Command>]> = [
+  ['solve', async () => (await import('./commands/solve.js')).solveCommand],
+  ['sweep', async () => (await import('./commands/sweep.js')).sweepCommand],
+  ['model', async () => (await import('./commands/model.js')).modelCommand],
+  ['simulate', async () => (await import('./commands/simulate.js')).simulateCommand],
+  ['exact', async () => (await import('./commands/exact.js')).exactCommand],
+  ['demo', async () => (await import('./commands/demo.js')).demoCommand],
+  ['krylov', async () => (await import('./commands/krylov.js')).krylovCommand],
+  ['batch', async () => (await import('./commands/batch.js')).batchCommand],
+  ['collect', async () => (await import('./commands/collect.js')).collectCommand],
+];
+
+/** Commands that read every command's options (manifests name them), so they need the whole program. */
+const NEEDS_ALL = new Set(['batch', 'collect']);
+
+/**
+ * The command definitions a run needs: only the command `argv` names, so a run loads one command's
+ * modules; all of them for help, the version, batch, collect and a mistyped name (suggestions).
+ */
+async function commandsFor(argv: string[]): Promise<Array<(io: CliIo) => Command>> {
+  const named = COMMANDS.filter(([name]) => name === argv[0] && !NEEDS_ALL.has(name));
+  return Promise.all((named.length ? named : COMMANDS).map(([, load]) => load()));
+}
 
 /**
  * Run the CLI on `argv` (without node and script) and return the exit status: 0 success,
@@ -27,7 +41,7 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     .exitOverride()
     .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) })
     .showSuggestionAfterError(true);
-  for (const make of COMMANDS) {
+  for (const make of await commandsFor(argv)) {
     const cmd = make(io);
     cmd.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
     program.addCommand(cmd);
@@ -38,6 +52,7 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
   } catch (e) {
     return reportError(e, io);
   } finally {
+    closeMatvecWorkers();
     await closeThreadPools();
   }
 }

@@ -1,5 +1,9 @@
-import { SingleBar, Presets } from 'cli-progress';
+import { createRequire } from 'node:module';
+import type { SingleBar } from 'cli-progress';
 import type { CliIo } from './io.js';
+
+// cli-progress is loaded on the first bar only: runs without a terminal never pay for it.
+const requireCjs = createRequire(import.meta.url);
 
 /** Progress reporters for the build and the solve; no-ops unless stderr is a terminal and output is not JSON. */
 export interface Progress {
@@ -19,6 +23,7 @@ export function progressFor(io: CliIo, json: boolean): Progress {
   return {
     build(done, total) {
       if (!bar) {
+        const { SingleBar, Presets } = requireCjs('cli-progress') as typeof import('cli-progress');
         bar = new SingleBar({ format: 'build  [{bar}] {percentage}% | {value}/{total} rows', stream: stream as unknown as NodeJS.WritableStream, hideCursor: false, clearOnComplete: true }, Presets.shades_classic);
         bar.start(total, 0);
       }

@@ -27,7 +27,8 @@ export type CliWorkerMessage = { out: string } | { err: string } | { status: num
  * deliver to an idle main thread: the worker may sit in a long synchronous Lanczos loop or an
  * Atomics wait. On a signal the worker (and its own workers) is terminated, temporary output files
  * it had in flight are removed, earlier outputs are never touched, and the process exits 130/143.
- * Resolves with the exit status of a run that was not interrupted. `script` replaces
+ * Resolves with the exit status of a run that was not interrupted, as soon as the worker reports it
+ * (its output has arrived by then; the worker and its own threads may still be tearing down). `script` replaces
  * `workers/cli.js` (tests use it to stand in a worker that never finishes).
  */
 export function runCliSupervised(argv: string[], opts: { script?: string } = {}): Promise<number> {
@@ -87,7 +88,10 @@ export function runCliSupervised(argv: string[], opts: { script?: string } = {})
         if (stdoutOpen) process.stdout.write(m.out);
       } else if ('err' in m) {
         if (stderrOpen) process.stderr.write(m.err);
-      } else status = m.status;
+      } else {
+        status = m.status;
+        resolve(status);
+      }
     });
     worker.on('error', (e) => {
       if (interrupted) return;

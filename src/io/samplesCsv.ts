@@ -1,5 +1,4 @@
 import { createReadStream } from 'node:fs';
-import { parse } from 'csv-parse';
 import { BitspanError } from '../errors.js';
 import type { BitstringParser } from './bitstringParser.js';
 import { MAX_LINE_CHARS, parseCount } from './lines.js';
@@ -10,6 +9,8 @@ import type { SampleSink } from './sampleSink.js';
  * (other columns are ignored); a row without a count column is one shot.
  */
 export async function readSamplesCsv(file: string, parser: BitstringParser, sink: SampleSink): Promise<number> {
+  // csv-parse loads here: most dumps take the fast reader and never need it.
+  const { parse } = await import('csv-parse');
   const csv = createReadStream(file).pipe(
     parse({ bom: true, info: true, skip_empty_lines: true, trim: true, max_record_size: MAX_LINE_CHARS, relax_quotes: false }),
   );

@@ -45,6 +45,37 @@ export function applyTeamRows(spec: TeamSpec, m: number, xi: number, yi: number)
 
 const sharedVector = (len: number): Float64Array => new Float64Array(new SharedArrayBuffer(Math.max(8, len * 8)));
 
+/** A spec posted to a member worker: the team's shared arrays, the member's index and the port new team vectors arrive on. */
+export type MemberSpec = TeamSpec & { member: number; port: MessagePort };
+
+/**
+ * Member workers not in a team: started ahead by `startMatvecWorkers`, or handed back by a closed
+ * team. Each waits for a `MemberSpec` message; unref'd so an idle one never keeps a process alive.
+ */
+const idle: Worker[] = [];
+
+/** How many threads (this one included) a team on `dim` rows uses: below ~2000 rows per thread a product is too short to share. */
+export function teamMembers(dim: number, threads: number): number {
+  return Math.max(1, Math.min(threads, Math.ceil(dim / 2000)));
+}
+
+/**
+ * Start the member workers a team on `dim` rows will need, now: a worker's start-up (its V8
+ * isolate and modules) then overlaps the build instead of delaying the first product.
+ */
+export function startMatvecWorkers(dim: number, threads: number): void {
+  for (let n = teamMembers(dim, threads) - 1 - idle.length; n > 0; n--) {
+    const w = new Worker(workerScript('matvecTeam'));
+    w.unref();
+    idle.push(w);
+  }
+}
+
+/** Stop the idle member workers (a command calls this once when it ends); their teardown is not waited for. */
+export function closeMatvecWorkers(): void {
+  for (const w of idle.splice(0)) void w.terminate();
+}
+
 /**
  * A synchronous operator whose products run on `threads` threads (this one and threads−1 workers)
  * over shared memory, woken through Atomics, so Lanczos stays a plain loop. Vectors from
@@ -64,17 +95,20 @@ export class MatvecTeam implements LinearOperator {
 
   constructor(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'control'>, threads: number) {
     const len = spec.complex ? 2 * spec.dim : spec.dim;
-    const members = Math.max(1, Math.min(threads, Math.ceil(spec.dim / 2000)));
+    const members = teamMembers(spec.dim, threads);
     const control = new SharedArrayBuffer(16);
     const ys = spec.kind === 'stored' ? [] : Array.from({ length: members }, () => sharedVector(len));
     this.spec = { ...spec, vectors: [], ys, bounds: splitRows(spec, members), control };
     this.ctrl = new Int32Array(control);
     this.dim = spec.dim;
     this.complex = spec.complex;
+    startMatvecWorkers(spec.dim, threads);
     for (let m = 1; m < members; m++) {
       const { port1, port2 } = new MessageChannel();
       this.ports.push(port1);
-      this.workers.push(new Worker(workerScript('matvecTeam'), { workerData: { ...this.spec, member: m, port: port2 }, transferList: [port2] }));
+      const w = idle.pop()!;
+      w.postMessage({ ...this.spec, member: m, port: port2 } satisfies MemberSpec, [port2]);
+      this.workers.push(w);
     }
   }
 
@@ -132,12 +166,12 @@ export class MatvecTeam implements LinearOperator {
     }
   }
 
-  /** Stop the workers. */
+  /** Release the workers: they leave this team's loop and wait, idle, for the next team. */
   close(): void {
     Atomics.store(this.ctrl, 0, -1);
     Atomics.notify(this.ctrl, 0);
-    for (const p of this.ports) p.close();
-    for (const w of this.workers) void w.terminate();
+    for (const p of this.ports.splice(0)) p.close();
+    idle.push(...this.workers.splice(0));
   }
 }
 

@@ -1,7 +1,11 @@
+import { createRequire } from 'node:module';
 import { availableParallelism } from 'node:os';
-import { Piscina } from 'piscina';
+import type { Piscina } from 'piscina';
 import { BitspanError, type BitspanErrorCode } from '../errors.js';
 import { workerScript } from '../util/packageRoot.js';
+
+// piscina is loaded with the first pool: small builds run on one thread and never need it.
+const requireCjs = createRequire(import.meta.url);
 
 /** Worker pools by script and size, kept for the life of a command and closed by `closeThreadPools`. */
 const pools = new Map<string, Piscina>();
@@ -17,7 +21,8 @@ export function threadPool(script: string, threads: number): Piscina {
   let pool = pools.get(key);
   if (!pool) {
     // Idle workers exit after a second so a library caller that forgets closeThreadPools still exits.
-    pool = new Piscina({ filename: workerScript(script), minThreads: 0, maxThreads: threads, idleTimeout: 1000 });
+    const { Piscina: Pool } = requireCjs('piscina') as typeof import('piscina');
+    pool = new Pool({ filename: workerScript(script), minThreads: 0, maxThreads: threads, idleTimeout: 1000 });
     pools.set(key, pool);
   }
   return pool;

@@ -6,7 +6,7 @@ import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { rowScanPlan } from '../build/rowScan.js';
 import { applyStoredRows, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
-import { MatvecTeam } from '../parallel/matvecTeam.js';
+import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
 import { csrApplyRows, type SparseMatrix } from '../build/sparseMatrix.js';
@@ -18,15 +18,12 @@ import { compileSector, describeSector, type Sector } from '../sectors/sector.js
 import { selectSubspace, type SubspaceReport } from '../sectors/selectSubspace.js';
 import { lanczos, LANCZOS_DEFAULTS, type LanczosResult, type LinearOperator } from '../solvers/lanczos.js';
 import type { SampleSet } from '../io/readSamples.js';
-import { readObservables } from '../io/observablesText.js';
-import { readStateCsv } from '../io/stateCsv.js';
-import { enumerateSector, sectorDimension } from '../sectors/enumerateSector.js';
 import { stateOnBasis, type StateOnConfigs } from '../analysis/stateOnBasis.js';
-import { analyzeLowest, type AnalysisOptions, type AnalysisReport, type ReferenceEnergy } from './analyze.js';
-import { expandSubspace, type ExpandOptions, type ExpansionReport } from './expand.js';
+import type { AnalysisOptions, AnalysisReport, ReferenceEnergy } from './analyze.js';
+import type { ExpandOptions, ExpansionReport } from './expand.js';
 import type { Fcidump } from '../io/fcidump.js';
 import type { ProductSpaceReport, RepairReport } from './solveSubspace.js';
-import { solveWithRepair, type IntegralsReport } from './solveWithRepair.js';
+import type { IntegralsReport } from './solveWithRepair.js';
 
 /** The dumps, the sector filters and the solver settings, shared by `solve` and `sweep`. */
 export interface SampledRunOptions {
@@ -299,6 +296,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   const eigs = settings.eigs ?? 1;
   const plan = planMemory(basis, scan, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
   const shared = basis.states.buffer instanceof SharedArrayBuffer;
+  // The product workers start now, so they are ready by the end of the build.
+  if (threads > 1 && shared) startMatvecWorkers(basis.dim, threads);
   let matrix: StoredHamiltonian | undefined;
   let op: LinearOperator;
   let team: MatvecTeam | undefined;
@@ -357,6 +356,8 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     if (opts.analysis || opts.expand || opts.startState) {
       throw new BitspanError('bad-argument', 'estimates, expansion and start states are not available with --integrals, --repair or --product-space yet', 'run those without the molecular/repair flags');
     }
+    // Optional stages are loaded when asked for, so a plain solve starts without their modules.
+    const { solveWithRepair } = await import('./solveWithRepair.js');
     return solveWithRepair(opts);
   }
   if (opts.hamiltonian === undefined) throw new BitspanError('bad-argument', 'no Hamiltonian given', 'give a Pauli sum with --hamiltonian FILE or molecular integrals with --integrals FILE.fcidump');
@@ -422,6 +423,7 @@ export async function solveSamples(hamiltonian: PauliSum, samples: SampleSet, op
       const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1 });
       return { energy: p.eigen.values[0]!, psi: p.eigen.vectors[0]! };
     };
+    const { expandSubspace } = await import('./expand.js');
     ({ basis, report: expansion } = await expandSubspace(hamiltonian, sampled, opts.sector, opts.expand, lowestOf));
     timings.expand = (performance.now() - t) / 1000;
   }
@@ -472,6 +474,7 @@ export async function solveBasis(
       return { energy: p.eigen.values[0]!, residual: p.eigen.residuals[0]! };
     };
     const operator = matrix ? storedOperator(matrix) : matrixFreeOperator(hamiltonian, basis, opts.sector);
+    const { analyzeLowest } = await import('./analyze.js');
     const { keys, timings: at } = await analyzeLowest(
       { hamiltonian, basis, sector: opts.sector, eigen, operator, sampledBasis: extras.sampledBasis, samples: extras.samples, solveOn },
       opts.analysis,
@@ -487,6 +490,7 @@ export async function solveBasis(
  * solved by the same build-and-solve entry.
  */
 export async function exactReference(hamiltonian: PauliSum, qubits: number, sector: Sector, maxDim: number, settings: SolverSettings = {}): Promise<ReferenceEnergy> {
+  const { enumerateSector, sectorDimension } = await import('../sectors/enumerateSector.js');
   const dim = sectorDimension(sector, qubits);
   if (dim > maxDim) {
     throw new BitspanError('too-large', `the whole sector has ${dim} configurations, more than --exact-max-dim ${maxDim}`, 'give --reference E instead, or raise --exact-max-dim');
@@ -513,6 +517,7 @@ export async function resolveAnalysis(
   const { reference, exact, exactMaxDim, observables, batches, ...rest } = a;
   const out: AnalysisOptions = { ...rest };
   if (observables) {
+    const { readObservables } = await import('../io/observablesText.js');
     const read = await readObservables(observables);
     for (const o of read.observables) {
       const top = highestMaskBit(o.x, o.z);
@@ -533,6 +538,7 @@ export async function resolveAnalysis(
 
 /** Read a saved state for a register of `qubits` qubits (`bad-state` if the sizes differ). */
 export async function readStartState(file: string, qubits: number, qubit0?: Qubit0): Promise<StateOnConfigs> {
+  const { readStateCsv } = await import('../io/stateCsv.js');
   const state = await readStateCsv(file, { qubit0 });
   if (state.qubits !== qubits) {
     throw new BitspanError('bad-state', `saved state has ${state.qubits} qubits but the samples have ${qubits}`, 'give a state saved from the same register', { file });

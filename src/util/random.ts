@@ -1,4 +1,5 @@
-import { xoroshiro128plus } from 'pure-rand';
+// The generator's own module: the package root loads every generator and distribution (~40 files).
+import { xoroshiro128plus } from 'pure-rand/generator/XoroShiro';
 
 /** A seeded stream of uniform doubles in [0, 1) (xoroshiro128+ from pure-rand, 53-bit mantissa). */
 export interface UniformSource {

@@ -56,6 +56,28 @@ describe('runCliSupervised with a closed stdout', () => {
   });
 });
 
+describe('bin.js exiting on the worker status', () => {
+  it('runCliSupervised resolves on the status and bin.js exits after the whole report went through the pipe', async () => {
+    const args = [bin, 'solve', '--hamiltonian', join(root, 'fixtures/quickstart/heisenberg.txt'), '--samples', join(root, 'fixtures/quickstart/samples.csv'), '--weight', '8', '--top', '5000', '--json'];
+    const p = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'] });
+    let stdout = '';
+    let stderr = '';
+    p.stderr.on('data', (d) => (stderr += d));
+    // A slow reader: the report (~750 KB) fills the pipe (64 KiB) and the rest waits in bitspan's
+    // own buffer, which an exit before the flush would drop.
+    const closed = new Promise<number | null>((resolve) => p.on('close', (c) => resolve(c)));
+    const exited = new Promise((resolve) => p.on('exit', resolve));
+    await Promise.race([exited, new Promise((resolve) => setTimeout(resolve, 1500))]);
+    p.stdout.on('data', (d) => (stdout += d));
+    const code = await closed;
+    expect(stderr).toBe('');
+    expect(code).toBe(0);
+    expect(stdout.length).toBeGreaterThan(1 << 16);
+    const report = JSON.parse(stdout) as { dimension: number; groundState: { top: unknown[] } };
+    expect(report.groundState.top).toHaveLength(Math.min(5000, report.dimension));
+  });
+});
+
 describe('runCliSupervised with a worker stuck in a synchronous loop', () => {
   it('runCliSupervised stops a busy worker on SIGINT and removes the temporary file it had announced', async () => {
     const work = tempDir('bitspan-signal-busy-');

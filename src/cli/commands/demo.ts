@@ -1,7 +1,7 @@
 import { Command } from 'commander';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
-import { runDemo, type DemoReport, type DemoRow } from '../../pipeline/demo.js';
+import type { DemoReport, DemoRow } from '../../pipeline/demo.js';
 import type { CliIo } from '../io.js';
 import { packageRoot } from '../../util/packageRoot.js';
 
@@ -42,6 +42,8 @@ export function demoCommand(io: CliIo): Command {
     .option('--json', 'print the report as one JSON object on stdout instead of the table')
     .action(async (f: { fixtures?: string; out: string; json?: boolean }) => {
       const fixtures = f.fixtures ?? defaultFixtures();
+      // The pipeline is loaded here, not at the top, so other commands and --help start without it.
+      const { runDemo } = await import('../../pipeline/demo.js');
       const report = await runDemo({
         fixtures,
         out: f.out,

@@ -1,7 +1,7 @@
 import { Command } from 'commander';
 import { writeFileAtomic } from '../../io/atomicWrite.js';
 import type { Qubit0 } from '../../io/bitstringParser.js';
-import { exact, type ExactReport } from '../../pipeline/exact.js';
+import type { ExactReport } from '../../pipeline/exact.js';
 import type { CliIo } from '../io.js';
 import { collect, oneOf, positiveInt } from '../parse.js';
 import { type SolverFlags, addSolverOptions } from '../sectorOptions.js';
@@ -51,6 +51,8 @@ export function exactCommand(io: CliIo): Command {
     .option('--json', 'print one JSON object on stdout')
     .option('--out <file>', 'also write the JSON report to FILE (atomically)')
     .action(async (f: ExactFlags) => {
+      // The pipeline is loaded here, not at the top, so other commands and --help start without it.
+      const { exact } = await import('../../pipeline/exact.js');
       const { report } = await exact({
         hamiltonian: f.hamiltonian,
         sector: { weights: (f.weight ?? []).map((w) => parseWeightSpec(w)).map(({ lo, hi, weight }) => ({ lo, hi, weight })), parity: f.parity },

@@ -8,7 +8,6 @@ import { lineChartSvg } from '../../io/plotSvg.js';
 import { scanCsv } from '../../io/scanCsv.js';
 import { svgToPng } from '../../io/plotRender.js';
 import { thresholdScanChart } from '../../io/thresholdScanChart.js';
-import { krylov } from '../../pipeline/krylov.js';
 import type { CliIo } from '../io.js';
 import { krylovSummary } from '../krylovSummary.js';
 import { nonNegativeInt, nonNegativeNumber, positiveInt, positiveNumber } from '../parse.js';
@@ -66,6 +65,8 @@ export function krylovCommand(io: CliIo): Command {
       const source = sourceFromFlags(f);
       if (f.relative && f.threshold === undefined) throw new BitspanError('bad-argument', '--relative needs --threshold', 'e.g. --threshold 1e-6 --relative');
       if (!(f.scanTo >= f.scanFrom)) throw new BitspanError('bad-argument', `--scan-to ${f.scanTo} is below --scan-from ${f.scanFrom}`, 'e.g. --scan-from 1e-14 --scan-to 1');
+      // The pipeline is loaded here, not at the top, so other commands and --help start without it.
+      const { krylov } = await import('../../pipeline/krylov.js');
       const { report, scan } = await krylov({
         source,
         threshold: f.threshold,

@@ -1,8 +1,7 @@
 import { Command } from 'commander';
 import { availableParallelism } from 'node:os';
-import cliProgress from 'cli-progress';
 import { BitspanError } from '../../errors.js';
-import { simulate, type SimulateReport } from '../../pipeline/simulate.js';
+import type { SimulateReport } from '../../pipeline/simulate.js';
 import type { EvolutionMethod } from '../../sim/evolveStates.js';
 import type { ShotNoise } from '../../sim/sampleDump.js';
 import type { CliIo } from '../io.js';
@@ -81,7 +80,10 @@ export function simulateCommand(io: CliIo): Command {
     .action(async (f: SimulateFlags) => {
       if (f.matrixShots !== undefined && !f.krylovMatrices) throw new BitspanError('bad-argument', '--matrix-shots needs --krylov-matrices FILE', 'add --krylov-matrices krylov.json');
       const noise: ShotNoise = { p01: f.readoutError?.[0] ?? 0, p10: f.readoutError?.[1] ?? 0, flip: f.flipNoise ?? 0 };
-      const bar = io.stderrIsTTY && !f.json ? new cliProgress.SingleBar({ stream: process.stderr, format: 'simulate [{bar}] {percentage}% | {dumps}/{total} dumps | {duration_formatted} (eta {eta_formatted})', hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
+      // The pipeline is loaded here, not at the top, so other commands and --help start without it.
+      const { simulate } = await import('../../pipeline/simulate.js');
+      const cliProgress = io.stderrIsTTY && !f.json ? (await import('cli-progress')).default : undefined;
+      const bar = cliProgress ? new cliProgress.SingleBar({ stream: process.stderr, format: 'simulate [{bar}] {percentage}% | {dumps}/{total} dumps | {duration_formatted} (eta {eta_formatted})', hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
       bar?.start(f.steps, 0, { dumps: 0 });
       try {
         const report = await simulate({

@@ -2,10 +2,8 @@ import { Command } from 'commander';
 import { BitspanError } from '../../errors.js';
 import { writeFileAtomic } from '../../io/atomicWrite.js';
 import { renderPlot } from '../../io/plotRender.js';
-import { formatStateCsv } from '../../io/stateCsv.js';
 import { stateObservables } from '../../analysis/observables.js';
 import { zProfilePlot } from '../../analysis/plots/zProfilePlot.js';
-import { solve } from '../../pipeline/solve.js';
 import type { CliIo } from '../io.js';
 import { parseElectrons } from '../../sectors/electronSector.js';
 import { positiveInt } from '../parse.js';
@@ -69,6 +67,8 @@ export function solveCommand(io: CliIo): Command {
       }
       const plotFormat = f.plot ? plotFormatOf(f.plot) : undefined;
       const wantsAnalysis = f.estimate || f.gap !== undefined || f.reference !== undefined || f.exact || f.observables || f.observe || f.batches !== undefined;
+      // The pipeline is loaded here, not at the top, so other commands and --help start without it.
+      const { solve } = await import('../../pipeline/solve.js');
       const progress = progressFor(io, Boolean(f.json));
       const { report, basis, eigen } = await solve({
         hamiltonian: f.hamiltonian,
@@ -106,7 +106,10 @@ export function solveCommand(io: CliIo): Command {
         ? await renderPlot(zProfilePlot(`⟨Z⟩ per qubit, lowest state of the ${report.dimension}-configuration subspace`, report.observables?.z ?? stateObservables(basis, eigen.vectors[0]!, report.complex, { correlations: false }).z), plotFormat!)
         : undefined;
       if (f.out) await writeFileAtomic(f.out, json);
-      if (f.saveState) await writeFileAtomic(f.saveState, formatStateCsv(basis, eigen.vectors[0]!, report.complex, f.qubit0));
+      if (f.saveState) {
+        const { formatStateCsv } = await import('../../io/stateCsv.js');
+        await writeFileAtomic(f.saveState, formatStateCsv(basis, eigen.vectors[0]!, report.complex, f.qubit0));
+      }
       if (f.plot && plot !== undefined) await writeFileAtomic(f.plot, plot);
       io.stdout(f.json ? json : solveSummary(report));
     });

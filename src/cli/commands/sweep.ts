@@ -8,7 +8,7 @@ import { formatSweepCsv } from '../../io/sweepCsv.js';
 import { energyPlot } from '../../analysis/plots/energyPlot.js';
 import { errorPlot } from '../../analysis/plots/errorPlot.js';
 import { zProfilePlot } from '../../analysis/plots/zProfilePlot.js';
-import { sweep, type ExtrapolateAgainst, type SubsampleMode, type SweepAxis, type SweepReport } from '../../pipeline/sweep.js';
+import type { ExtrapolateAgainst, SubsampleMode, SweepAxis, SweepReport } from '../../pipeline/sweep.js';
 import type { CliIo } from '../io.js';
 import { oneOf, positiveInt } from '../parse.js';
 import { addEstimateOptions, addExpandOptions, checkEstimateFlags, expandFromFlags, numberList, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
@@ -55,6 +55,8 @@ export function sweepCommand(io: CliIo): Command {
       if (f.subsample === 'random' && f.axis !== 'shots') throw new BitspanError('bad-argument', '--subsample applies to --axis shots only', 'drop --subsample or use --axis shots');
       if (f.axis === 'expand' && f.expand !== undefined) throw new BitspanError('bad-argument', '--expand N and --axis expand both set the expansion steps', 'give the steps with --values, e.g. --axis expand --values 0,1,2');
       const expand = f.axis === 'expand' ? { steps: 0, threshold: f.expandThreshold, max: f.expandMax } : expandFromFlags(f);
+      // The pipeline is loaded here, not at the top, so other commands and --help start without it.
+      const { sweep } = await import('../../pipeline/sweep.js');
       const { report } = await sweep({
         hamiltonian: f.hamiltonian,
         samples: f.samples,
