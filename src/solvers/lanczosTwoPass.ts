@@ -1,6 +1,6 @@
 import { seededUniform } from '../util/random.js';
 import type { LanczosResult, LinearOperator } from './lanczos.js';
-import { symmetricEigen } from './symmetricEigen.js';
+import { tridiagonalLowest } from './tridiagonalLowest.js';
 import { axpy, dot, norm, scale } from './vectorOps.js';
 
 /** Options of `lanczosTwoPass`. */
@@ -141,18 +141,4 @@ function replayStep(v: Float64Array, vPrev: Float64Array, w: Float64Array, x: Fl
     x[i]! += yj * vi;
     w[i] = (w[i]! - a * vi - b * vPrev[i]!) * inv;
   }
-}
-
-/** Lowest eigenpair of the symmetric tridiagonal matrix (alpha on the diagonal, beta beside it). */
-function tridiagonalLowest(alpha: number[], beta: number[]): { value: number; vector: Float64Array; maxAbs: number } {
-  const n = alpha.length;
-  const t = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) {
-    t[i * n + i] = alpha[i]!;
-    if (i + 1 < n) t[i * n + i + 1] = t[(i + 1) * n + i] = beta[i]!;
-  }
-  const { values, vectors } = symmetricEigen(t, n);
-  const vector = new Float64Array(n);
-  for (let i = 0; i < n; i++) vector[i] = vectors[i * n]!;
-  return { value: values[0]!, vector, maxAbs: Math.max(Math.abs(values[0]!), Math.abs(values[n - 1]!)) };
 }
