@@ -3,16 +3,43 @@ import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
 import { runInPool, threadPool } from '../parallel/threadPool.js';
 import { buildUpperRows, sectorFlipTest, type UpperPiece } from './projectedHamiltonian.js';
-import { rowScanPlan, upperPerRowEstimate } from './rowScan.js';
+import { rowScanPlan, upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
 
-/** Rows per task below which one thread is faster than shipping work to the pool. */
+/** Rows below which one thread is faster than shipping work to the pool. */
 const MIN_ROWS_PARALLEL = 20000;
 
 /**
- * Build H_S over `threads` worker threads: the basis must sit on SharedArrayBuffers (makeBasis with
- * `shared`), rows are split into chunks (several per thread for balance), and the upper-triangle
- * pieces are mirrored into one stored Hamiltonian. Identical output for any thread count.
+ * Work shared by the threads of one build: chunk k covers rows [k·step, (k+1)·step); `progress`
+ * holds the next chunk to take (slot 0) and the rows finished (slot 1).
+ */
+export interface SharedChunks {
+  basis: Basis;
+  plan: RowScanPlan;
+  upperPerRow: number;
+  step: number;
+  progress: Int32Array;
+}
+
+/** Take chunks until none are left; each piece on SharedArrayBuffers, so it returns without a copy. */
+export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): UpperPiece[] {
+  const pieces: UpperPiece[] = [];
+  const dim = work.basis.dim;
+  while (pieces.length < maxChunks) {
+    const r0 = Atomics.add(work.progress, 0, 1) * work.step;
+    if (r0 >= dim) break;
+    const r1 = Math.min(dim, r0 + work.step);
+    pieces.push(buildUpperRows(work.basis, work.plan, r0, r1, { upperPerRow: work.upperPerRow, shared: true }));
+    Atomics.add(work.progress, 1, r1 - r0);
+  }
+  return pieces;
+}
+
+/**
+ * Build H_S on this thread and threads−1 pool workers: the basis must sit on SharedArrayBuffers
+ * (makeBasis with `shared`); every thread takes row chunks from a shared counter (several per
+ * thread for balance), and the upper-triangle pieces are mirrored, in row order, into one stored
+ * Hamiltonian. Identical output for any thread count.
  */
 export async function buildProjectedHamiltonianParallel(
   basis: Basis,
@@ -28,24 +55,27 @@ export async function buildProjectedHamiltonianParallel(
     onProgress?.(basis.dim, basis.dim);
     return storedFromPieces(basis.dim, groups.complex, [piece]);
   }
-  const pool = threadPool('buildRows', threads);
-  const upperPerRow = upperPerRowEstimate(basis, plan);
-  const chunks = Math.min(64, threads * 8);
-  const step = Math.ceil(basis.dim / chunks);
   // Only the shared arrays travel; `counts` stays on this thread.
   const view: Basis = { qubits: basis.qubits, nWords: basis.nWords, dim: basis.dim, states: basis.states, slots: basis.slots, filter: basis.filter, counts: new Float64Array(0) };
-  let done = 0;
-  const tasks: Array<Promise<UpperPiece>> = [];
-  for (let r0 = 0; r0 < basis.dim; r0 += step) {
-    const r1 = Math.min(basis.dim, r0 + step);
-    tasks.push(
-      runInPool<unknown, UpperPiece>(pool, { basis: view, plan, r0, r1, upperPerRow, shared: true }).then((p) => {
-        done += p.r1 - p.r0;
-        onProgress?.(done, basis.dim);
-        return p;
-      }),
-    );
+  const work: SharedChunks = {
+    basis: view,
+    plan,
+    upperPerRow: upperPerRowEstimate(basis, plan),
+    step: Math.ceil(basis.dim / Math.min(64, threads * 8)),
+    progress: new Int32Array(new SharedArrayBuffer(8)),
+  };
+  const pool = threadPool('buildRows', threads - 1);
+  const helpers = Array.from({ length: threads - 1 }, () => runInPool<SharedChunks, UpperPiece[]>(pool, work));
+  // This thread takes chunks too, one at a time, yielding between them so the pool can start.
+  const own: UpperPiece[] = [];
+  for (;;) {
+    await new Promise<void>((resolve) => setImmediate(resolve));
+    const got = buildTakenChunks(work, 1);
+    if (got.length === 0) break;
+    own.push(...got);
+    onProgress?.(Atomics.load(work.progress, 1), basis.dim);
   }
-  const pieces = await Promise.all(tasks);
+  const pieces = [...own, ...(await Promise.all(helpers)).flat()].sort((a, b) => a.r0 - b.r0);
+  onProgress?.(basis.dim, basis.dim);
   return storedFromPieces(basis.dim, groups.complex, pieces, true);
 }
