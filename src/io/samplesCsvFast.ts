@@ -1,4 +1,4 @@
-import { createReadStream } from 'node:fs';
+import { promises as fsp } from 'node:fs';
 import { BitspanError } from '../errors.js';
 import type { BitstringParser } from './bitstringParser.js';
 import { MAX_LINE_CHARS, parseCount } from './lines.js';
@@ -7,6 +7,12 @@ import { headerColumns } from './samplesCsv.js';
 
 /** Thrown when the file needs the full CSV grammar (quoted fields); the caller re-reads with csv-parse. */
 export class NeedsFullCsv extends Error {}
+
+/** Bytes read at a time; the quote check runs per chunk, so this also fixes when the reader defers. */
+const CHUNK_BYTES = 1 << 20;
+
+/** Rows handed to the sink at once by the specialised loop. */
+const BATCH_ROWS = 64;
 
 /**
  * Read a plain CSV dump (no quoted fields) straight from bytes: split lines and fields on the
@@ -20,7 +26,28 @@ export async function readSamplesCsvFast(file: string, parser: BitstringParser, 
   let rows = 0;
   let line = 0;
   let headerDone = false;
-  let carry: Buffer | null = null;
+  // Rows laid out as `bits,count` or `bits` alone take the specialised loop below, which hands
+  // them to the sink in batches; the batch is flushed before any other line is looked at, so rows
+  // reach the sink (and its errors arise) in file order.
+  let plainLayout = false;
+  let batchWords = new Uint32Array(0);
+  const batchCounts = new Float64Array(BATCH_ROWS);
+  const batchLines = new Int32Array(BATCH_ROWS);
+  let pending = 0;
+  const flush = (): void => {
+    const n = pending;
+    pending = 0;
+    if (n === 0) return;
+    if (sink.addMany) sink.addMany(batchWords, batchCounts, batchLines, n);
+    else {
+      const nWords = parser.nWords;
+      const words = parser.words;
+      for (let r = 0; r < n; r++) {
+        for (let k = 0; k < nWords; k++) words[k] = batchWords[r * nWords + k]!;
+        sink.add(words, batchCounts[r]!, batchLines[r]!);
+      }
+    }
+  };
   const handleLine = (buf: Buffer, start: number, end: number): void => {
     line++;
     if (line === 1 && end - start >= 3 && buf[start] === 0xef && buf[start + 1] === 0xbb && buf[start + 2] === 0xbf) start += 3;
@@ -34,6 +61,7 @@ export async function readSamplesCsvFast(file: string, parser: BitstringParser, 
       ({ bitCol, countCol } = headerColumns(cells, file, line));
       width = cells.length;
       headerDone = true;
+      plainLayout = bitCol === 0 && ((width === 1 && countCol < 0) || (width === 2 && countCol === 1));
       return;
     }
     // Locate the fields we need by scanning commas once.
@@ -79,37 +107,113 @@ export async function readSamplesCsvFast(file: string, parser: BitstringParser, 
     sink.add(words, count, line);
     rows++;
   };
+
+  // One buffer for the whole file: the unfinished line of the previous chunk is moved to its front
+  // and the next chunk read behind it, so nothing is concatenated or reallocated per chunk.
+  const buf = Buffer.allocUnsafe(MAX_LINE_CHARS + CHUNK_BYTES);
+  let carry = 0;
+  let handle: fsp.FileHandle | undefined;
   try {
-    for await (const chunk of createReadStream(file, { highWaterMark: 1 << 20 }) as AsyncIterable<Buffer>) {
+    handle = await fsp.open(file, 'r');
+    for (;;) {
+      const { bytesRead } = await handle.read(buf, carry, CHUNK_BYTES, null);
+      if (bytesRead === 0) break;
       // Quoted fields need the full grammar; one scan per chunk keeps this check cheap.
-      if (chunk.indexOf(34) >= 0) throw new NeedsFullCsv();
-      let buf = chunk;
-      if (carry) {
-        buf = Buffer.concat([carry, chunk]);
-        carry = null;
-      }
+      if (buf.subarray(carry, carry + bytesRead).indexOf(34) >= 0) throw new NeedsFullCsv();
+      const data = buf.subarray(0, carry + bytesRead);
+      const limit = data.length;
       let start = 0;
-      for (;;) {
-        const nl = buf.indexOf(10, start);
+      while (start < limit) {
+        const n = parser.qubits;
+        if (plainLayout && n > 0 && start + n < limit) {
+          // Specialised row `bits,count` / `bits` with nothing else on the line (CRLF allowed); any
+          // other shape goes to the general line handler below, which owns every error message.
+          const nWords = parser.nWords;
+          if (batchWords.length !== BATCH_ROWS * nWords) batchWords = new Uint32Array(BATCH_ROWS * nWords);
+          let j = start + n;
+          let ok = packBinary(data, start, n, batchWords, pending * nWords, nWords, parser.qubit0 === 'right');
+          let count = 1;
+          if (ok && countCol === 1) {
+            if (data[j] === 44) {
+              const d0 = ++j;
+              count = 0;
+              for (; j < limit && j - d0 < 16; j++) {
+                const d = data[j]! - 48;
+                if (d < 0 || d > 9) break;
+                count = count * 10 + d;
+              }
+              ok = j > d0 && j - d0 <= 15;
+            } else ok = false;
+          }
+          if (ok && j < limit && data[j] === 13) j++;
+          if (ok && j < limit && data[j] === 10) {
+            line++;
+            batchCounts[pending] = count;
+            batchLines[pending] = line;
+            if (++pending === BATCH_ROWS) flush();
+            rows++;
+            start = j + 1;
+            continue;
+          }
+        }
+        const nl = data.indexOf(10, start);
         if (nl < 0) break;
-        handleLine(buf, start, nl);
+        flush();
+        handleLine(data, start, nl);
         start = nl + 1;
       }
-      if (start < buf.length) {
-        if (buf.length - start > MAX_LINE_CHARS) {
-          throw new BitspanError('bad-samples', `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a CSV dump', { file, line: line + 1 });
-        }
-        carry = Buffer.from(buf.subarray(start));
+      if (limit - start > MAX_LINE_CHARS) {
+        flush();
+        throw new BitspanError('bad-samples', `line longer than ${MAX_LINE_CHARS} characters`, 'check that this is a CSV dump', { file, line: line + 1 });
       }
+      buf.copyWithin(0, start, limit);
+      carry = limit - start;
     }
   } catch (e) {
-    if (e instanceof BitspanError || e instanceof NeedsFullCsv) throw e;
+    if (e instanceof NeedsFullCsv) throw e;
+    // Rows before the failure come first, as if each had been handed over when read.
+    flush();
+    if (e instanceof BitspanError) throw e;
     const code = (e as NodeJS.ErrnoException).code;
     throw new BitspanError('file-unreadable', `cannot read file (${code ?? String(e)})`, 'check the path and permissions', { file });
+  } finally {
+    await handle?.close();
   }
-  if (carry && carry.length > 0) handleLine(carry, 0, carry.length);
+  flush();
+  if (carry > 0) handleLine(buf, 0, carry);
   if (!headerDone) throw new BitspanError('file-empty', 'sample file is empty', "give a CSV with a 'bitstring' header and at least one row", { file });
   return rows;
+}
+
+/**
+ * Pack the `n` bytes at `buf[a..]` as a 0/1 bitstring into `words[at..]` (qubit 0 is the last character
+ * when `right`, else the first); false when a byte is neither '0' nor '1'.
+ */
+function packBinary(buf: Buffer, a: number, n: number, words: Uint32Array, at: number, nWords: number, right: boolean): boolean {
+  // Any byte other than 0x30/0x31 leaves a bit set outside the lowest one after this xor.
+  let bad = 0;
+  for (let w = 0; w < nWords; w++) {
+    let v = 0;
+    if (right) {
+      // Word w holds characters n-32w-32 .. n-32w-1, the last of them in bit 0.
+      const hi = a + n - 32 * w;
+      for (let i = Math.max(a, hi - 32); i < hi; i++) {
+        const c = buf[i]! ^ 48;
+        bad |= c;
+        v = (v << 1) | c;
+      }
+    } else {
+      // Word w holds characters 32w .. 32w+31, the first of them in bit 0.
+      const lo = a + 32 * w;
+      for (let i = Math.min(a + n, lo + 32) - 1; i >= lo; i--) {
+        const c = buf[i]! ^ 48;
+        bad |= c;
+        v = (v << 1) | c;
+      }
+    }
+    words[at + w] = v;
+  }
+  return (bad & ~1) === 0;
 }
 
 /** Pack a 0/1 field from bytes; non-binary text (hex, bad characters) goes through the parser for its checks and messages. */
@@ -119,16 +223,6 @@ function packField(buf: Buffer, a: number, b: number, parser: BitstringParser, f
     return parser.parse(buf.toString('latin1', a, b), file, line);
   }
   const w = parser.words;
-  w.fill(0);
-  const right = parser.qubit0 === 'right';
-  for (let i = 0; i < n; i++) {
-    const c = buf[a + i];
-    if (c === 49) {
-      const q = right ? n - 1 - i : i;
-      w[q >>> 5]! |= 1 << (q & 31);
-    } else if (c !== 48) {
-      return parser.parse(buf.toString('utf8', a, b), file, line);
-    }
-  }
-  return w;
+  if (packBinary(buf, a, n, w, 0, parser.nWords, parser.qubit0 === 'right')) return w;
+  return parser.parse(buf.toString('utf8', a, b), file, line);
 }
