@@ -3,6 +3,9 @@ import { hashConfig, slotCountFor } from './hashIndex.js';
 // Where `addMany` leaves the values of its prefetching loads, so the compiler keeps them.
 const prefetchSink = new Int32Array(1);
 
+/** Rows whose memory `addMany` touches ahead of inserting them. */
+const PREFETCH_ROWS = 64;
+
 /**
  * A growable set of distinct packed configurations with a weight (shot count) per entry, used to
  * deduplicate samples while streaming. Entries keep insertion order; `states` and `counts` are the
@@ -65,25 +68,33 @@ export class ConfigTable {
    * the index of each goes to `at`. Same result as `n` calls to `add`, but faster on large tables.
    */
   addMany(words: Uint32Array, counts: Float64Array, n: number, at: Int32Array): void {
+    for (let r0 = 0; r0 < n; r0 += PREFETCH_ROWS) {
+      const r1 = Math.min(n, r0 + PREFETCH_ROWS);
+      this.prefetch(words, r0, r1, at);
+      for (let r = r0; r < r1; r++) at[r] = this.add(words, r * this.nWords, counts[r]!);
+    }
+  }
+
+  /**
+   * Touch the slot of each of rows r0..r1, then the entry it points at: the loads are independent,
+   * so their cache misses overlap instead of being paid one row after another by `add`.
+   */
+  private prefetch(words: Uint32Array, r0: number, r1: number, scratch: Int32Array): void {
     const nWords = this.nWords;
     const slots = this.slots ?? this.rehash(this.size);
     const mask = slots.length - 1;
     const states = this.states;
     const weights = this.counts;
-    // Touch each row's slot, then the entry it points at, before inserting anything: the loads are
-    // independent, so their cache misses overlap instead of being paid one row after another.
     let touched = 0;
-    for (let r = 0; r < n; r++) {
-      const s = hashConfig(words, r * nWords, nWords) & mask;
-      at[r] = s;
-      touched ^= slots[s]!;
+    for (let r = r0; r < r1; r++) {
+      const v = slots[hashConfig(words, r * nWords, nWords) & mask]!;
+      scratch[r] = v;
     }
-    for (let r = 0; r < n; r++) {
-      const idx = slots[at[r]!]! - 1;
+    for (let r = r0; r < r1; r++) {
+      const idx = scratch[r]! - 1;
       if (idx >= 0) touched ^= states[idx * nWords]! ^ (weights[idx]! | 0);
     }
     prefetchSink[0]! ^= touched;
-    for (let r = 0; r < n; r++) at[r] = this.add(words, r * nWords, counts[r]!);
   }
 
   /** Index of a configuration, or -1. */
