@@ -29,53 +29,73 @@ const DIGITS_PER_WORD = 3;
  * only the entries `subset[0..count)` and returns them in order.
  */
 export function sortOrder(states: Uint32Array, count: number, nWords: number, subset?: Int32Array): Int32Array {
+  return radixSort(states, count, nWords, subset).order;
+}
+
+/**
+ * The radix sort behind `sortOrder`, returning the configurations in sorted order as well. The
+ * whole configuration travels with its index through every pass, so the passes read and write
+ * sequentially and nothing is gathered from `states` out of order after the first copy.
+ */
+function radixSort(states: Uint32Array, count: number, nWords: number, subset?: Int32Array): { order: Int32Array; keys: Uint32Array } {
   let order = new Int32Array(count);
-  if (subset) order.set(subset.subarray(0, count));
-  else for (let i = 0; i < count; i++) order[i] = i;
-  if (count < 2) return order;
-  let next = new Int32Array(count);
-  // The word being sorted on travels with the order, so each digit pass reads sequentially; only
-  // the gather at the start of each word touches `states` out of order.
-  let key = new Uint32Array(count);
-  let nextKey = new Uint32Array(count);
-  const hist = new Int32Array(DIGITS_PER_WORD << DIGIT_BITS);
-  for (let k = 0; k < nWords; k++) {
-    hist.fill(0);
-    for (let i = 0; i < count; i++) {
-      const v = states[order[i]! * nWords + k]!;
-      key[i] = v;
-      hist[v & DIGIT_MASK]!++;
-      hist[(1 << DIGIT_BITS) + ((v >>> DIGIT_BITS) & DIGIT_MASK)]!++;
-      hist[(2 << DIGIT_BITS) + (v >>> (2 * DIGIT_BITS))]!++;
-    }
-    for (let d = 0; d < DIGITS_PER_WORD; d++) {
-      const h0 = d << DIGIT_BITS;
-      const shift = d * DIGIT_BITS;
-      // Exclusive prefix sums give each bucket's first slot; a full bucket means nothing to do.
-      let sum = 0;
-      let uniform = false;
-      for (let b = 0; b <= DIGIT_MASK; b++) {
-        const c = hist[h0 + b]!;
-        if (c === count) uniform = true;
-        hist[h0 + b] = sum;
-        sum += c;
-      }
-      if (uniform) continue;
-      for (let i = 0; i < count; i++) {
-        const v = key[i]!;
-        const at = hist[h0 + ((v >>> shift) & DIGIT_MASK)]!++;
-        nextKey[at] = v;
-        next[at] = order[i]!;
-      }
-      const t = order;
-      order = next;
-      next = t;
-      const tk = key;
-      key = nextKey;
-      nextKey = tk;
+  let keys = new Uint32Array(count * nWords);
+  // A digit's histogram does not depend on the order, so one pass counts every digit of every word.
+  const digits = nWords * DIGITS_PER_WORD;
+  const hist = new Int32Array(digits << DIGIT_BITS);
+  for (let i = 0; i < count; i++) {
+    const src = subset ? subset[i]! : i;
+    order[i] = src;
+    for (let k = 0; k < nWords; k++) {
+      const v = states[src * nWords + k]!;
+      keys[i * nWords + k] = v;
+      const h = (k * DIGITS_PER_WORD) << DIGIT_BITS;
+      hist[h + (v & DIGIT_MASK)]!++;
+      hist[h + (1 << DIGIT_BITS) + ((v >>> DIGIT_BITS) & DIGIT_MASK)]!++;
+      hist[h + (2 << DIGIT_BITS) + (v >>> (2 * DIGIT_BITS))]!++;
     }
   }
-  return order;
+  if (count < 2) return { order, keys };
+  let nextOrder = new Int32Array(count);
+  let nextKeys = new Uint32Array(count * nWords);
+  for (let d = 0; d < digits; d++) {
+    const h0 = d << DIGIT_BITS;
+    // Exclusive prefix sums give each bucket's first slot; a full bucket means nothing to do.
+    let sum = 0;
+    let uniform = false;
+    for (let b = 0; b <= DIGIT_MASK; b++) {
+      const c = hist[h0 + b]!;
+      if (c === count) uniform = true;
+      hist[h0 + b] = sum;
+      sum += c;
+    }
+    if (uniform) continue;
+    const k = (d / DIGITS_PER_WORD) | 0;
+    const shift = (d % DIGITS_PER_WORD) * DIGIT_BITS;
+    if (nWords === 2) {
+      for (let i = 0; i < count; i++) {
+        const lo = keys[2 * i]!;
+        const hi = keys[2 * i + 1]!;
+        const at = hist[h0 + (((k === 0 ? lo : hi) >>> shift) & DIGIT_MASK)]!++;
+        nextKeys[2 * at] = lo;
+        nextKeys[2 * at + 1] = hi;
+        nextOrder[at] = order[i]!;
+      }
+    } else {
+      for (let i = 0; i < count; i++) {
+        const at = hist[h0 + ((keys[i * nWords + k]! >>> shift) & DIGIT_MASK)]!++;
+        for (let j = 0; j < nWords; j++) nextKeys[at * nWords + j] = keys[i * nWords + j]!;
+        nextOrder[at] = order[i]!;
+      }
+    }
+    const t = order;
+    order = nextOrder;
+    nextOrder = t;
+    const tk = keys;
+    keys = nextKeys;
+    nextKeys = tk;
+  }
+  return { order, keys };
 }
 
 /**
@@ -92,15 +112,12 @@ export function makeBasis(
   shared = false,
   pick?: Int32Array,
 ): Basis {
-  const order = sortOrder(states, count, nWords, pick);
+  const { order, keys } = radixSort(states, count, nWords, pick);
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(bytes) : new ArrayBuffer(bytes));
   const sorted = new Uint32Array(alloc(Math.max(1, count * nWords) * 4));
+  sorted.set(keys);
   const sortedCounts = new Float64Array(count);
-  for (let i = 0; i < count; i++) {
-    const src = order[i]!;
-    for (let k = 0; k < nWords; k++) sorted[i * nWords + k] = states[src * nWords + k]!;
-    if (counts) sortedCounts[i] = counts[src]!;
-  }
+  if (counts) for (let i = 0; i < count; i++) sortedCounts[i] = counts[order[i]!]!;
   const slots = buildHashSlots(sorted, count, nWords, new Int32Array(alloc(slotCountFor(count) * 4)));
   const filter = buildConfigFilter(sorted, count, nWords, new Uint32Array(alloc(filterWordsFor(count) * 4)));
   return { qubits, nWords, dim: count, states: sorted, slots, counts: sortedCounts, filter };
