@@ -122,6 +122,8 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     if (rows === 0 || !table) {
       throw new BitspanError('file-empty', 'sample file holds no samples', 'give at least one bitstring row', { file });
     }
+    // Later stages only read the entries; the slots (the larger part at low fill) can go.
+    table.releaseIndex();
     groups.push(order ? { file, rows, shots, table, order } : { file, rows, shots, table });
   }
   return { qubits: parser.qubits, nWords: parser.nWords, groups };

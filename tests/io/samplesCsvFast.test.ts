@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { join } from 'node:path';
 import { writeFileSync } from 'node:fs';
 import { readSamplesCsvFast } from '../../src/io/samplesCsvFast.js';
@@ -138,5 +139,32 @@ describe('readSamplesCsvFast', () => {
     writeFileSync(file, ['bitstring,count', ...Array.from({ length: 200 }, () => `${bits},7`), `${bits},1e308`, `${bits},7`, `${bits},1e308`, `${bits},7`].join('\n') + '\n');
     const e = await readSamples([file]).then(() => undefined, (x: unknown) => x);
     expect([(e as BitspanError).code, (e as BitspanError).line]).toEqual(['bad-samples', 204]);
+  });
+  it('readSamples refuses a non-binary byte anywhere in a plain row, at its line, for both qubit orders (property)', async () => {
+    const dir = tempDir();
+    let serial = 0;
+    await fc.assert(
+      fc.asyncProperty(
+        fc.integer({ min: 1, max: 70 }),
+        fc.nat(),
+        // Single-byte characters: a multi-byte one changes the byte length and is refused as such.
+        fc.constantFrom('2', '/', 'a', ' ', '\t', '\u007f', 'x', '\u0000'),
+        fc.constantFrom<'right' | 'left'>('right', 'left'),
+        async (qubits, at, bad, qubit0) => {
+          const row = (i: number): string => Array.from({ length: qubits }, (_, q) => String((i >> q % 5) & 1)).join('');
+          const rows = Array.from({ length: 150 }, (_, i) => `${row(i)},${i}`);
+          const k = 2 + (at % 140);
+          const pos = at % qubits;
+          rows[k] = rows[k]!.slice(0, pos) + bad + rows[k]!.slice(pos + 1);
+          const file = join(dir, `bad${serial++}.csv`);
+          writeFileSync(file, 'bitstring,count\n' + rows.join('\n') + '\n');
+          const e = await readSamples([file], { qubit0 }).then(() => undefined, (x: unknown) => x);
+          // Whitespace at either end of the cell is trimmed (common practice in CSV readers), which shortens it.
+          const code = (bad === ' ' || bad === '\t') && (pos === 0 || pos === qubits - 1) ? 'inconsistent-length' : 'bad-bitstring';
+          expect([(e as BitspanError).code, (e as BitspanError).line]).toEqual([code, k + 2]);
+        },
+      ),
+      { seed: 17, numRuns: 120 },
+    );
   });
 });
