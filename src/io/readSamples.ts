@@ -59,7 +59,7 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     const order: RowOrder | undefined = opts.keepOrder ? { length: 0, index: new Int32Array(1024), count: new Float64Array(1024) } : undefined;
     // Size the table from the file once the row length is known, so it rarely rehashes.
     const tableFor = (): ConfigTable => new ConfigTable(parser.nWords, Math.min(1 << 24, Math.max(1 << 12, Math.ceil(bytes / (parser.qubits + 4)))));
-    let at: Int32Array | undefined;
+    let batchAt: Int32Array | undefined;
     const sink = {
       add(words: Uint32Array, count: number, line: number): void {
         table ??= tableFor();
@@ -80,8 +80,8 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
       },
       addMany(words: Uint32Array, counts: Float64Array, lines: Int32Array, n: number): void {
         table ??= tableFor();
-        at ??= new Int32Array(n);
-        if (at.length < n) at = new Int32Array(n);
+        if (!batchAt || batchAt.length < n) batchAt = new Int32Array(n);
+        const at = batchAt;
         // Rows up to the first whose count overflows the total are added, then that row is refused,
         // exactly as `add` row by row would.
         let total = shots;
