@@ -116,6 +116,7 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
         // Quoted fields: start this file again with the general CSV reader.
         table = undefined;
         shots = 0;
+        if (order) order.length = 0;
         rows = await readSamplesCsv(file, parser, sink);
       }
     } else rows = format === 'json' ? await readSamplesJson(file, parser, sink) : await readSamplesText(file, parser, sink);

@@ -167,4 +167,18 @@ describe('readSamplesCsvFast', () => {
       { seed: 17, numRuns: 120 },
     );
   });
+  it('readSamples starts the row order afresh when a quote past the first chunk sends the file to csv-parse', async () => {
+    const dir = tempDir();
+    const { text, rows } = bigDump(64, Math.ceil((2 << 20) / 69), 8);
+    const lines = text.split('\n');
+    const at = lines.findIndex((l, i) => i > (lines.length * 3) / 4 && /^[01]+,\d+$/.test(l));
+    const [bits, count] = lines[at]!.split(',');
+    lines[at] = `"${bits}",${count}`;
+    const file = join(dir, 'quoted.csv');
+    writeFileSync(file, lines.join('\n'));
+    const g = (await readSamples([file], { keepOrder: true })).groups[0]!;
+    expect(g.rows).toBe(rows.length);
+    expect(g.order!.length).toBe(rows.length);
+    rows.forEach((r, i) => expect(formatBitstring(g.table.states, g.order!.index[i]! * 2, 64)).toBe(r.bits));
+  });
 });
