@@ -57,10 +57,12 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
     let table: ConfigTable | undefined;
     let shots = 0;
     const order: RowOrder | undefined = opts.keepOrder ? { length: 0, index: new Int32Array(1024), count: new Float64Array(1024) } : undefined;
+    // Size the table from the file once the row length is known, so it rarely rehashes.
+    const tableFor = (): ConfigTable => new ConfigTable(parser.nWords, Math.min(1 << 24, Math.max(1 << 12, Math.ceil(bytes / (parser.qubits + 4)))));
+    let batchAt: Int32Array | undefined;
     const sink = {
       add(words: Uint32Array, count: number, line: number): void {
-        // Size the table from the file once the row length is known, so it rarely rehashes.
-        table ??= new ConfigTable(parser.nWords, Math.min(1 << 24, Math.max(1 << 12, Math.ceil(bytes / (parser.qubits + 4)))));
+        table ??= tableFor();
         let at: number;
         try {
           at = table.add(words, 0, count);
@@ -76,6 +78,33 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
         }
         if (order) appendRow(order, at, count);
       },
+      addMany(words: Uint32Array, counts: Float64Array, lines: Int32Array, n: number): void {
+        table ??= tableFor();
+        if (!batchAt || batchAt.length < n) batchAt = new Int32Array(n);
+        const at = batchAt;
+        // Rows up to the first whose count overflows the total are added, then that row is refused,
+        // exactly as `add` row by row would.
+        let total = shots;
+        let last = n;
+        for (let r = 0; r < n; r++) {
+          total += counts[r]!;
+          if (!Number.isFinite(total)) {
+            last = r + 1;
+            break;
+          }
+        }
+        try {
+          table.addMany(words, counts, last, at);
+        } catch (e) {
+          if (e instanceof RangeError) throw tooManyConfigs(table.size, parser.qubits, file);
+          throw e;
+        }
+        if (last < n || !Number.isFinite(total)) {
+          throw new BitspanError('bad-samples', 'counts add up beyond the double range (about 1.8e308)', 'check the count column', { file, line: lines[last - 1]! });
+        }
+        shots = total;
+        if (order) for (let r = 0; r < n; r++) appendRow(order, at[r]!, counts[r]!);
+      },
     };
     const format = resolveFormat(file, opts.format ?? 'auto');
     let rows: number;
@@ -87,12 +116,15 @@ export async function readSamples(files: string[], opts: ReadSamplesOptions = {}
         // Quoted fields: start this file again with the general CSV reader.
         table = undefined;
         shots = 0;
+        if (order) order.length = 0;
         rows = await readSamplesCsv(file, parser, sink);
       }
     } else rows = format === 'json' ? await readSamplesJson(file, parser, sink) : await readSamplesText(file, parser, sink);
     if (rows === 0 || !table) {
       throw new BitspanError('file-empty', 'sample file holds no samples', 'give at least one bitstring row', { file });
     }
+    // Later stages only read the entries; the slots (the larger part at low fill) can go.
+    table.releaseIndex();
     groups.push(order ? { file, rows, shots, table, order } : { file, rows, shots, table });
   }
   return { qubits: parser.qubits, nWords: parser.nWords, groups };

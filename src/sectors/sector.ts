@@ -1,5 +1,5 @@
 import { BitspanError } from '../errors.js';
-import { maskedWeightAt, popcount32, rangeMask } from '../bits/packed.js';
+import { popcount32, rangeMask } from '../bits/packed.js';
 
 /** Exactly `weight` ones among qubits lo..hi (inclusive). */
 export interface WeightConstraint {
@@ -62,8 +62,11 @@ export function compileSector(sector: Sector, qubits: number, nWords: number): C
 /** Which constraint a configuration breaks: −1 none, `count` for parity, else the constraint index. */
 export function sectorViolation(s: CompiledSector, words: Uint32Array, offset: number): number {
   const nWords = s.nWords;
+  const masks = s.masks;
   for (let c = 0; c < s.count; c++) {
-    if (maskedWeightAt(words, offset, s.masks.subarray(c * nWords, c * nWords + nWords), nWords) !== s.targets[c]) return c;
+    let w = 0;
+    for (let k = 0; k < nWords; k++) w += popcount32(words[offset + k]! & masks[c * nWords + k]!);
+    if (w !== s.targets[c]) return c;
   }
   if (s.parity >= 0) {
     let p = 0;

@@ -79,34 +79,37 @@ export function selectSubspace(samples: SampleSet, opts: SelectOptions): { basis
   // One dump needs no merge; several are merged once, remembering where each entry went.
   const single = samples.groups.length === 1;
   const merged = single ? samples.groups[0]!.table : new ConfigTable(nWords, samples.groups.reduce((n, g) => n + g.table.size, 0));
-  const whereMerged: Int32Array[] = samples.groups.map((g) => {
-    const at = new Int32Array(g.table.size);
-    for (let i = 0; i < g.table.size; i++) at[i] = single ? i : merged.add(g.table.states, i * nWords, g.table.counts[i]!);
-    return at;
-  });
+  const whereMerged: Int32Array[] | undefined = single
+    ? undefined
+    : samples.groups.map((g) => {
+        const at = new Int32Array(g.table.size);
+        merged.addMany(g.table.states, g.table.counts, g.table.size, at);
+        return at;
+      });
 
   const n = merged.size;
+  const counts = merged.counts;
   const reason = new Uint8Array(n);
-  const survivors: number[] = [];
+  let kept = new Int32Array(n);
+  let keptCount = 0;
   for (let i = 0; i < n; i++) {
     const v = sectorViolation(sector, merged.states, i * nWords);
     if (v >= 0) reason[i] = v === sector.count ? REASON_PARITY : REASON_WEIGHT;
-    else if (opts.minCount !== undefined && merged.counts[i]! < opts.minCount) reason[i] = REASON_MIN_COUNT;
-    else survivors.push(i);
+    else if (opts.minCount !== undefined && counts[i]! < opts.minCount) reason[i] = REASON_MIN_COUNT;
+    else kept[keptCount++] = i;
   }
-  let kept = survivors;
-  if (opts.maxDim !== undefined && survivors.length > opts.maxDim) {
+  if (opts.maxDim !== undefined && keptCount > opts.maxDim) {
     // Ascending configuration order (radix sort), then a stable sort by count: ties keep the smaller bitstring first.
-    const ascending = sortOrder(merged.states, merged.size, nWords);
-    const byFrequency = Array.from(ascending).filter((i) => reason[i] === REASON_KEPT);
-    byFrequency.sort((a, b) => merged.counts[b]! - merged.counts[a]!);
-    kept = byFrequency.slice(0, opts.maxDim);
+    const byFrequency = Array.from(sortOrder(merged.states, keptCount, nWords, kept));
+    byFrequency.sort((a, b) => counts[b]! - counts[a]!);
+    kept = Int32Array.from(byFrequency.slice(0, opts.maxDim));
+    keptCount = opts.maxDim;
     for (const i of byFrequency.slice(opts.maxDim)) reason[i] = REASON_MAX_DIM;
   }
 
-  const total: SubspaceReport = { shots: 0, distinct: n, kept: kept.length, keptShots: 0, dropped: emptyDropped(), groups: [] };
+  const total: SubspaceReport = { shots: 0, distinct: n, kept: keptCount, keptShots: 0, dropped: emptyDropped(), groups: [] };
   for (let i = 0; i < n; i++) {
-    const c = merged.counts[i]!;
+    const c = counts[i]!;
     total.shots += c;
     if (reason[i] === REASON_KEPT) total.keptShots += c;
     else tally(total.dropped, reason[i]!, c);
@@ -114,8 +117,9 @@ export function selectSubspace(samples: SampleSet, opts: SelectOptions): { basis
   const seenBefore = new Uint8Array(n);
   samples.groups.forEach((g, gi) => {
     const acc: GroupAccount = { file: g.file, rows: g.rows, shots: g.shots, distinct: g.table.size, kept: 0, keptShots: 0, newKept: 0, dropped: emptyDropped() };
+    const where = whereMerged?.[gi];
     for (let j = 0; j < g.table.size; j++) {
-      const i = whereMerged[gi]![j]!;
+      const i = where ? where[j]! : j;
       const c = g.table.counts[j]!;
       if (reason[i] === REASON_KEPT) {
         acc.kept++;
@@ -127,15 +131,8 @@ export function selectSubspace(samples: SampleSet, opts: SelectOptions): { basis
     total.groups.push(acc);
   });
 
-  if (kept.length === 0) throw emptySubspaceError(samples, opts, total, merged, sector.count > 0);
-
-  const states = new Uint32Array(kept.length * nWords);
-  const counts = new Float64Array(kept.length);
-  kept.forEach((src, i) => {
-    states.set(merged.states.subarray(src * nWords, src * nWords + nWords), i * nWords);
-    counts[i] = merged.counts[src]!;
-  });
-  return { basis: makeBasis(qubits, nWords, states, kept.length, counts, opts.shared), report: total };
+  if (keptCount === 0) throw emptySubspaceError(samples, opts, total, merged, sector.count > 0);
+  return { basis: makeBasis(qubits, nWords, merged.states, keptCount, counts, opts.shared, kept), report: total };
 }
 
 function emptySubspaceError(samples: SampleSet, opts: SelectOptions, total: SubspaceReport, merged: ConfigTable, hasWeights: boolean): BitspanError {
