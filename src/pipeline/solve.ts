@@ -5,7 +5,7 @@ import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { rowScanPlan } from '../build/rowScan.js';
-import { applyStoredRows, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
+import { applyStoredRows, permuteVector, reorderForLocality, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
@@ -173,8 +173,24 @@ export function matrixFreeOperator(hamiltonian: PauliSum, basis: Basis, sector: 
 
 /** Operator view of a stored Hamiltonian (single thread). */
 export function storedOperator(m: StoredHamiltonian): LinearOperator {
-  return { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
+  if (!m.order) return { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
+  // Vectors are in basis order; the rows are not: permute in and out around each product.
+  const len = m.complex ? 2 * m.dim : m.dim;
+  const xs = new Float64Array(len);
+  const ys = new Float64Array(len);
+  return {
+    dim: m.dim,
+    complex: m.complex,
+    apply: (x, y) => {
+      permuteVector(m, x, xs, true);
+      applyStoredRows(m, xs, ys);
+      permuteVector(m, ys, y, false);
+    },
+  };
 }
+
+/** Dimension from which the stored matrix is renumbered for locality before the solve. */
+const REORDER_MIN_DIM = 50000;
 
 /** Operator view of a stored sparse matrix. */
 export function matrixOperator(m: SparseMatrix): LinearOperator {
@@ -303,7 +319,10 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   let team: MatvecTeam | undefined;
   if (plan.storage === 'stored') {
     matrix = await buildProjectedHamiltonianParallel(basis, groups, compiled, threads, settings.onBuildProgress);
-    op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: matrix.complex, dim: matrix.dim, matrix }, threads)) : storedOperator(matrix);
+    if (matrix.dim >= REORDER_MIN_DIM) matrix = reorderForLocality(matrix, shared);
+    // Lanczos runs in storage order; its start vector goes in and its eigenvectors come out below.
+    const m = matrix;
+    op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: m.complex, dim: m.dim, matrix: m }, threads)) : { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
   } else {
     const view: Basis = { ...basis, counts: new Float64Array(0) };
     const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan };
@@ -311,16 +330,29 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   }
   const t1 = performance.now();
   let eigen: LanczosResult;
+  const reordered = matrix?.order ? matrix : undefined;
+  let start = settings.start;
+  if (reordered && start) {
+    start = new Float64Array(start.length);
+    permuteVector(reordered, settings.start!, start, true);
+  }
   try {
     eigen = lanczos(op, {
       eigs,
       tol: settings.tol ?? LANCZOS_DEFAULTS.tol,
       seed: settings.seed ?? LANCZOS_DEFAULTS.seed,
-      start: settings.start,
+      start,
       onProgress: settings.onSolveProgress,
     });
   } finally {
     team?.close();
+  }
+  if (reordered) {
+    eigen.vectors = eigen.vectors.map((v) => {
+      const out = new Float64Array(v.length);
+      permuteVector(reordered, v, out, false);
+      return out;
+    });
   }
   const t2 = performance.now();
   return {

@@ -3,7 +3,7 @@ import { makeBasis } from '../../src/bits/basis.js';
 import { buildProjectedHamiltonianParallel } from '../../src/build/parallelBuild.js';
 import { groupByFlipMask, PauliSumBuilder } from '../../src/operators/pauliSum.js';
 import { compileSector } from '../../src/sectors/sector.js';
-import { projectAndSolve } from '../../src/pipeline/solve.js';
+import { projectAndSolve, projectAndSolveSync } from '../../src/pipeline/solve.js';
 import { closeThreadPools } from '../../src/parallel/threadPool.js';
 import { seededUniform } from '../../src/util/random.js';
 
@@ -72,5 +72,21 @@ describe('buildProjectedHamiltonianParallel', () => {
     expect(runs[3]!.plan.storage).toBe('matrix-free');
     for (const r of runs.slice(1)) expect(Math.abs(r.eigen.values[0]! - runs[0]!.eigen.values[0]!)).toBeLessThan(1e-10);
     for (const r of runs.slice(1, 3)) expect(Math.abs(r.eigen.values[1]! - runs[0]!.eigen.values[1]!)).toBeLessThan(1e-10);
+  });
+
+  it('projectAndSolve on a renumbered matrix (D ≥ 50000) gives the energy and ground state of the basis-order solve', async () => {
+    const { h, n, states, dim } = problem(false, 60000);
+    const basis = makeBasis(n, 2, states, dim, undefined, true);
+    const sector = { weights: [{ lo: 0, hi: -1, weight: 20 }] };
+    const renumbered = await projectAndSolve(h, basis, sector, { threads: 2, tol: 1e-11 });
+    expect(renumbered.matrix!.order).toBeInstanceOf(Int32Array);
+    // Reference: the plain CSR matrix in basis order, solved on this thread.
+    const plain = projectAndSolveSync(h, basis, sector, { tol: 1e-11 });
+    expect(Math.abs(renumbered.eigen.values[0]! - plain.eigen.values[0]!)).toBeLessThan(1e-9);
+    const a = renumbered.eigen.vectors[0]!;
+    const b = plain.eigen.vectors[0]!;
+    let overlap = 0;
+    for (let i = 0; i < a.length; i++) overlap += a[i]! * b[i]!;
+    expect(Math.abs(Math.abs(overlap) - 1)).toBeLessThan(1e-8);
   });
 });

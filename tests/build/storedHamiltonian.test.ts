@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { UpperPiece } from '../../src/build/projectedHamiltonian.js';
 import { toDense } from '../../src/build/sparseMatrix.js';
-import { applyStoredRows, storedFromPieces, storedNonzeros, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
+import { applyStoredRows, permuteVector, reorderForLocality, storedFromPieces, storedNonzeros, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
 import { seededUniform } from '../../src/util/random.js';
 
 /**
@@ -115,5 +115,40 @@ describe('storedHamiltonian', () => {
     expect(stored.values).toBeInstanceOf(Float64Array);
     const few = storedFromPieces(420, false, randomPieces(420, false, 5, 300, 0.9));
     expect(few.codes).toBeInstanceOf(Uint16Array);
+  });
+});
+
+describe('reorderForLocality', () => {
+  it('reorderForLocality keeps the matrix: toSparseMatrix and permuted products equal the original', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 40 }), fc.boolean(), fc.integer({ min: 1, max: 1e6 }), fc.constantFrom(0, 3), (dim, complex, seed, levels) => {
+        const stored = storedFromPieces(dim, complex, randomPieces(dim, complex, seed, levels, 0.15));
+        const once = reorderForLocality(stored);
+        const twice = reorderForLocality(once);
+        const want = toDense(toSparseMatrix(stored));
+        for (const r of [once, twice]) {
+          expect(r.order).toBeInstanceOf(Int32Array);
+          // The order is a permutation of the rows.
+          expect([...r.order!].sort((a, b) => a - b)).toEqual(Array.from({ length: dim }, (_, i) => i));
+          const got = toDense(toSparseMatrix(r));
+          expect(Array.from(got.re)).toEqual(Array.from(want.re));
+          expect(Array.from(got.im, (v) => v + 0)).toEqual(Array.from(want.im, (v) => v + 0));
+          // A product in storage order, moved back, is the product in basis order.
+          const w = complex ? 2 : 1;
+          const rng = seededUniform(seed + 9);
+          const x = Float64Array.from({ length: w * dim }, () => rng.next() - 0.5);
+          const y0 = new Float64Array(w * dim);
+          applyStoredRows(stored, x, y0);
+          const xs = new Float64Array(w * dim);
+          const ys = new Float64Array(w * dim);
+          const y = new Float64Array(w * dim);
+          permuteVector(r, x, xs, true);
+          applyStoredRows(r, xs, ys);
+          permuteVector(r, ys, y, false);
+          for (let i = 0; i < w * dim; i++) expect(Math.abs(y[i]! - y0[i]!)).toBeLessThan(1e-12);
+        }
+      }),
+      { numRuns: 100, seed: 21 },
+    );
   });
 });
