@@ -9,6 +9,7 @@ import { compileSector } from '../src/sectors/sector.js';
 import { buildProjectedHamiltonianParallel } from '../src/build/parallelBuild.js';
 import { applyStoredRows, reorderForLocality, storedBytes } from '../src/build/storedHamiltonian.js';
 import { MatvecTeam } from '../src/parallel/matvecTeam.js';
+import { REORDER_MIN_DIM } from '../src/pipeline/solve.js';
 import { closeThreadPools } from '../src/parallel/threadPool.js';
 
 /** a = b + s·c on 3 × 256 MiB arrays, best of 5 after a warm-up that faults the pages in. */
@@ -42,8 +43,9 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
   await build(2); // warm the pool and the JIT
   const build1 = Math.min(await build(1), await build(1));
   const build2 = Math.min(await build(2), await build(2));
-  // The matrix as the solver holds it: renumbered for locality.
-  const m = reorderForLocality(await buildProjectedHamiltonianParallel(basis, groups, compiled, 2), true);
+  // The matrix as the solver holds it (renumbered for locality from REORDER_MIN_DIM).
+  const built = await buildProjectedHamiltonianParallel(basis, groups, compiled, 2);
+  const m = built.dim >= REORDER_MIN_DIM ? reorderForLocality(built, true) : built;
   const n = m.dim;
   const x = new Float64Array(n).fill(1);
   const y = new Float64Array(n);

@@ -1,7 +1,7 @@
 import type { Basis } from '../bits/basis.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
-import { releaseThreadPool, runInPool, threadPool } from '../parallel/threadPool.js';
+import { runInPool, threadPool } from '../parallel/threadPool.js';
 import { buildUpperRows, sectorFlipTest, type UpperPiece } from './projectedHamiltonian.js';
 import { rowScanPlan, upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
@@ -76,8 +76,6 @@ export async function buildProjectedHamiltonianParallel(
     onProgress?.(Atomics.load(work.progress, 1), basis.dim);
   }
   const pieces = [...own, ...(await Promise.all(helpers)).flat()].sort((a, b) => a.r0 - b.r0);
-  // The pool's workers would idle through the solve holding their heaps: stop them now.
-  releaseThreadPool('buildRows', threads - 1);
   onProgress?.(basis.dim, basis.dim);
   return storedFromPieces(basis.dim, groups.complex, pieces, true);
 }

@@ -41,18 +41,6 @@ export async function runInPool<T, R>(pool: Piscina, task: T): Promise<R> {
   }
 }
 
-/**
- * Stop one pool now (its workers' heaps, and the shared buffers they still reference, go with
- * them) rather than at its idle timeout; a later `threadPool` call starts a fresh one.
- */
-export function releaseThreadPool(script: string, threads: number): void {
-  const key = `${script}:${threads}`;
-  const pool = pools.get(key);
-  if (!pool) return;
-  pools.delete(key);
-  void pool.destroy();
-}
-
 /** Stop every pool (call once when a command ends so the process can exit). */
 export async function closeThreadPools(): Promise<void> {
   const all = [...pools.values()];

@@ -190,11 +190,13 @@ export function storedOperator(m: StoredHamiltonian): LinearOperator {
 }
 
 /**
- * Dimension from which the stored matrix is renumbered for locality before the solve. Measured on
- * the bench's Heisenberg cases (2 cores): at D = 10^6 the renumbering (~0.3 s, and a second copy
- * of the matrix while it runs) costs about what it saves in 50 products; at 2×10^6 it halves the solve.
+ * Dimension from which the stored matrix is renumbered for locality before the solve: by default
+ * never. Measured on the bench's Heisenberg cases (2 cores): renumbering halves each product, but
+ * at D = 10^6 it costs (~0.3 s) about what it saves in 50 products, and at 2×10^6 the second copy
+ * of the matrix it needs raised the peak from 386 to 487 MB for a gain lost in the noise. Worth
+ * it for many products (several eigenpairs, long sweeps): pass `reorderFromDim`.
  */
-const REORDER_MIN_DIM = 1_500_000;
+export const REORDER_MIN_DIM = Infinity;
 
 /** Operator view of a stored sparse matrix. */
 export function matrixOperator(m: SparseMatrix): LinearOperator {
@@ -286,7 +288,7 @@ export interface SolverSettings {
   memoryBytes?: number;
   /** Apply H on the fly instead of storing H_S. */
   matrixFree?: boolean;
-  /** Renumber a stored matrix's rows for locality from this dimension (default 1.5×10^6). */
+  /** Renumber a stored matrix's rows for locality from this dimension (default: never; see REORDER_MIN_DIM). */
   reorderFromDim?: number;
   /** Progress of the build (rows) and of the solve (matrix-vector products, residual). */
   onBuildProgress?: (rowsDone: number, rows: number) => void;
