@@ -203,6 +203,19 @@ export function matrixOperator(m: SparseMatrix): LinearOperator {
   return { dim: m.dim, complex: m.complex, apply: (x, y) => csrApplyRows(m, x, y) };
 }
 
+/** The report keys of a set of eigenpairs and how they were found (every solve path). */
+export function eigenReport(eigen: LanczosResult, tol: number, seed: number): Pick<SolveReport, 'energies' | 'residuals' | 'converged' | 'iterations' | 'matvecs' | 'tolerance' | 'seed'> {
+  return {
+    energies: Array.from(eigen.values),
+    residuals: Array.from(eigen.residuals),
+    converged: eigen.converged,
+    iterations: eigen.iterations,
+    matvecs: eigen.matvecs,
+    tolerance: tol,
+    seed,
+  };
+}
+
 /** The report keys that describe a projection and its eigenpairs (shared by solve and exact). */
 export function projectionReport(projection: Projection, tol: number, seed: number): Pick<SolveReport, 'nonzeros' | 'complex' | 'storage' | 'memory' | 'energies' | 'residuals' | 'converged' | 'iterations' | 'matvecs' | 'tolerance' | 'seed'> {
   const { eigen, plan } = projection;
@@ -211,13 +224,7 @@ export function projectionReport(projection: Projection, tol: number, seed: numb
     complex: projection.complex,
     storage: plan.storage,
     memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason },
-    energies: Array.from(eigen.values),
-    residuals: Array.from(eigen.residuals),
-    converged: eigen.converged,
-    iterations: eigen.iterations,
-    matvecs: eigen.matvecs,
-    tolerance: tol,
-    seed,
+    ...eigenReport(eigen, tol, seed),
   };
 }
 

@@ -12,6 +12,7 @@ import { DEFAULT_MEMORY_BUDGET, projectDeterminants, type DeterminantStorage } f
 import { solveSubspace } from './solveSubspace.js';
 import {
   checkRegister,
+  eigenReport,
   matrixOperator,
   projectAndSolveSync,
   readRunSamples,
@@ -126,13 +127,7 @@ export async function solveWithRepair(opts: SolveOptions): Promise<SolveOutcome>
     complex: projection.complex,
     storage: projection.storage === 'matrix-free' ? 'matrix-free' : 'stored',
     memory: { budgetBytes: memoryBudget, estimatedBytes: 0, reason: projection.storage === undefined ? 'qubit path with repair' : `determinant Hamiltonian ${projection.storage}` },
-    energies: Array.from(eigen.values),
-    residuals: Array.from(eigen.residuals),
-    converged: eigen.converged,
-    iterations: eigen.iterations,
-    matvecs: eigen.matvecs,
-    tolerance: tol,
-    seed,
+    ...eigenReport(eigen, tol, seed),
     hamiltonian:
       operator.kind === 'pauli'
         ? { file: operator.file, terms: operator.sum.terms.length, constant: operator.sum.constant, qubits: operator.sum.qubits }
