@@ -18,10 +18,13 @@ interface Run {
   stopMs: number;
 }
 
-/** Start `bitspan solve` on the 64-qubit case, send `signal` after `delayMs`, and wait for the process to end. */
+/**
+ * Start `bitspan solve` on the 64-qubit case, send `signal` after `delayMs`, and wait for the process
+ * to end. Matrix-free, so the run lasts many seconds however fast the stored path becomes.
+ */
 function interrupt(signal: NodeJS.Signals, delayMs: number, out: string): Promise<Run> {
   return new Promise((resolve, reject) => {
-    const p = spawn(process.execPath, [bin, 'solve', '--hamiltonian', hamiltonian, '--samples', samples, '--weight', '32', '--threads', '2', '--out', out], { stdio: ['ignore', 'pipe', 'pipe'] });
+    const p = spawn(process.execPath, [bin, 'solve', '--hamiltonian', hamiltonian, '--samples', samples, '--weight', '32', '--threads', '2', '--matrix-free', '--out', out], { stdio: ['ignore', 'pipe', 'pipe'] });
     let stderr = '';
     p.stderr.on('data', (d) => (stderr += d));
     let sent = 0;
@@ -122,7 +125,7 @@ describe('bin.js under SIGINT/SIGTERM', () => {
   beforeAll(async () => {
     expect(existsSync(bin)).toBe(true);
     dir = tempDir('bitspan-signal-');
-    // 64-qubit Heisenberg torus with 200000 sampled configurations: a run of several seconds.
+    // 64-qubit Heisenberg torus with 200000 sampled configurations: matrix-free, a run of many seconds.
     const { writeBenchCase } = (await import(join(root, 'dist/bench/cases.js'))) as typeof import('../../bench/cases.js');
     ({ hamiltonian, samples } = writeBenchCase(dir, { side: 8, distinct: 200000, seed: 1 }));
   });
