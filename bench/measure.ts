@@ -7,6 +7,8 @@ import { selectSubspace } from '../src/sectors/selectSubspace.js';
 import { groupByFlipMask } from '../src/operators/pauliSum.js';
 import { compileSector } from '../src/sectors/sector.js';
 import { buildProjectedHamiltonianParallel } from '../src/build/parallelBuild.js';
+import { sectorFlipTest } from '../src/build/projectedHamiltonian.js';
+import { rowScanPlan } from '../src/build/rowScan.js';
 import { applyStoredRows, reorderForLocality, storedBytes } from '../src/build/storedHamiltonian.js';
 import { MatvecTeam } from '../src/parallel/matvecTeam.js';
 import { REORDER_MIN_DIM } from '../src/pipeline/solve.js';
@@ -34,17 +36,17 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
   const sector = { weights: [{ lo: 0, hi: -1, weight }] };
   const { basis } = selectSubspace(s, { sector, shared: true });
   const groups = groupByFlipMask(h, basis.nWords);
-  const compiled = compileSector(sector, basis.qubits, basis.nWords);
+  const plan = rowScanPlan(groups, sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords)));
   const build = async (threads: number): Promise<number> => {
     const t = performance.now();
-    await buildProjectedHamiltonianParallel(basis, groups, compiled, threads);
+    await buildProjectedHamiltonianParallel(basis, plan, threads);
     return (performance.now() - t) / 1000;
   };
   await build(2); // warm the pool and the JIT
   const build1 = Math.min(await build(1), await build(1));
   const build2 = Math.min(await build(2), await build(2));
   // The matrix as the solver holds it (renumbered for locality from REORDER_MIN_DIM).
-  const built = await buildProjectedHamiltonianParallel(basis, groups, compiled, 2);
+  const built = await buildProjectedHamiltonianParallel(basis, plan, 2);
   const m = built.dim >= REORDER_MIN_DIM ? reorderForLocality(built, true) : built;
   const n = m.dim;
   const x = new Float64Array(n).fill(1);

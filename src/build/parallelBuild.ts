@@ -1,9 +1,7 @@
 import type { Basis } from '../bits/basis.js';
-import type { FlipGroups } from '../operators/pauliSum.js';
-import type { CompiledSector } from '../sectors/sector.js';
 import { runInPool, threadPool } from '../parallel/threadPool.js';
-import { buildUpperRows, sectorFlipTest, type UpperPiece } from './projectedHamiltonian.js';
-import { rowScanPlan, upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
+import { buildUpperRows, type UpperPiece } from './projectedHamiltonian.js';
+import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
 
 /** Rows below which one thread is faster than shipping work to the pool. */
@@ -43,24 +41,27 @@ export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): Uppe
  */
 export async function buildProjectedHamiltonianParallel(
   basis: Basis,
-  groups: FlipGroups,
-  sector: CompiledSector | undefined,
+  plan: RowScanPlan,
   threads: number,
-  onProgress?: (rowsDone: number, rows: number) => void,
+  opts: {
+    /** Upper entries per row, when the caller has estimated them already (see `upperPerRowEstimate`). */
+    upperPerRow?: number;
+    onProgress?: (rowsDone: number, rows: number) => void;
+  } = {},
 ): Promise<StoredHamiltonian> {
-  const plan = rowScanPlan(groups, sectorFlipTest(groups, sector));
+  const { onProgress } = opts;
   const shared = basis.states.buffer instanceof SharedArrayBuffer && basis.slots.buffer instanceof SharedArrayBuffer;
   if (threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared) {
     const piece = buildUpperRows(basis, plan, 0, basis.dim);
     onProgress?.(basis.dim, basis.dim);
-    return storedFromPieces(basis.dim, groups.complex, [piece]);
+    return storedFromPieces(basis.dim, plan.complex, [piece]);
   }
   // Only the shared arrays travel; `counts` stays on this thread.
   const view: Basis = { qubits: basis.qubits, nWords: basis.nWords, dim: basis.dim, states: basis.states, slots: basis.slots, filter: basis.filter, counts: new Float64Array(0) };
   const work: SharedChunks = {
     basis: view,
     plan,
-    upperPerRow: upperPerRowEstimate(basis, plan),
+    upperPerRow: opts.upperPerRow ?? upperPerRowEstimate(basis, plan),
     step: Math.ceil(basis.dim / Math.min(64, threads * 8)),
     progress: new Int32Array(new SharedArrayBuffer(8)),
   };
@@ -77,5 +78,5 @@ export async function buildProjectedHamiltonianParallel(
   }
   const pieces = [...own, ...(await Promise.all(helpers)).flat()].sort((a, b) => a.r0 - b.r0);
   onProgress?.(basis.dim, basis.dim);
-  return storedFromPieces(basis.dim, groups.complex, pieces, true);
+  return storedFromPieces(basis.dim, plan.complex, pieces, true);
 }

@@ -333,7 +333,9 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   let op: LinearOperator;
   let team: MatvecTeam | undefined;
   if (plan.storage === 'stored') {
-    matrix = await buildProjectedHamiltonianParallel(basis, groups, compiled, threads, settings.onBuildProgress);
+    // The memory plan sampled rows already: nonzeros = 2·upper + dim.
+    const upperPerRow = (plan.nonzerosEstimate - basis.dim) / (2 * Math.max(1, basis.dim));
+    matrix = await buildProjectedHamiltonianParallel(basis, scan, threads, { upperPerRow, onProgress: settings.onBuildProgress });
     if (matrix.dim >= (settings.reorderFromDim ?? REORDER_MIN_DIM)) matrix = reorderForLocality(matrix, shared);
     // Lanczos runs in storage order; its start vector goes in and its eigenvectors come out below.
     const m = matrix;

@@ -1,6 +1,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { makeBasis } from '../../src/bits/basis.js';
 import { buildProjectedHamiltonianParallel } from '../../src/build/parallelBuild.js';
+import { sectorFlipTest } from '../../src/build/projectedHamiltonian.js';
+import { rowScanPlan } from '../../src/build/rowScan.js';
 import { groupByFlipMask, PauliSumBuilder } from '../../src/operators/pauliSum.js';
 import { compileSector } from '../../src/sectors/sector.js';
 import { projectAndSolve, projectAndSolveSync } from '../../src/pipeline/solve.js';
@@ -52,7 +54,7 @@ describe('buildProjectedHamiltonianParallel', () => {
       const basis = makeBasis(n, 2, states, dim, undefined, true);
       const groups = groupByFlipMask(h, 2);
       const sector = compileSector({ weights: [{ lo: 0, hi: -1, weight: 20 }] }, n, 2);
-      const [m1, m2, m4] = await Promise.all([1, 2, 4].map((t) => buildProjectedHamiltonianParallel(basis, groups, sector, t)));
+      const [m1, m2, m4] = await Promise.all([1, 2, 4].map((t) => buildProjectedHamiltonianParallel(basis, rowScanPlan(groups, sectorFlipTest(groups, sector)), t)));
       const bytes = (a: ArrayBufferView | undefined): Buffer | undefined => (a ? Buffer.from(a.buffer, a.byteOffset, a.byteLength) : undefined);
       for (const m of [m2!, m4!]) {
         for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values'] as const) {
