@@ -11,6 +11,11 @@ export function hashConfig(words: Uint32Array, offset: number, nWords: number): 
     h = (h << 15) | (h >>> 17);
     h = Math.imul(h, 0x1b873593);
   }
+  return fmix32(h);
+}
+
+/** The murmur3 finaliser: every input bit reaches every output bit; returns an unsigned 32-bit value. */
+export function fmix32(h: number): number {
   h ^= h >>> 16;
   h = Math.imul(h, 0x85ebca6b);
   h ^= h >>> 13;

@@ -1,4 +1,4 @@
-import { slotCountFor } from './hashIndex.js';
+import { fmix32, slotCountFor } from './hashIndex.js';
 
 /*
  * Open-addressing hash index over pairs of non-negative integers (a spin-up string index and a
@@ -32,11 +32,5 @@ export function lookupPair(first: Int32Array, second: Int32Array, slots: Int32Ar
 
 /** 32-bit mix of two integers (murmur3 finaliser on a multiplicative combination). */
 export function pairHash(x: number, y: number): number {
-  let h = Math.imul(x, 0x9e3779b1) ^ Math.imul(y + 0x7f4a7c15, 0x85ebca77);
-  h ^= h >>> 16;
-  h = Math.imul(h, 0x85ebca6b);
-  h ^= h >>> 13;
-  h = Math.imul(h, 0xc2b2ae35);
-  h ^= h >>> 16;
-  return h >>> 0;
+  return fmix32(Math.imul(x, 0x9e3779b1) ^ Math.imul(y + 0x7f4a7c15, 0x85ebca77));
 }
