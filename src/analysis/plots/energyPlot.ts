@@ -1,5 +1,5 @@
 import type { TopLevelSpec } from 'vega-lite';
-import { dimensionScale, PLOT_CONFIG, plotNumber } from './plotConfig.js';
+import { dimensionScale, plotFrame, plotNumber } from './plotConfig.js';
 
 /** Inputs of the energy-versus-dimension plot. */
 export interface EnergyPlotData {
@@ -51,11 +51,7 @@ export function energyPlot(d: EnergyPlotData): TopLevelSpec {
     layers.push({ data: { values: [{ energy: plotNumber(d.reference!), series: 'reference' }] }, mark: { type: 'rule', strokeWidth: 1.5 }, encoding: { y: { field: 'energy', type: 'quantitative' }, color } });
   }
   return {
-    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    title: d.title,
-    width: 560,
-    height: 340,
-    config: PLOT_CONFIG,
+    ...plotFrame(d.title),
     layer: layers,
   } as TopLevelSpec;
 }

@@ -1,5 +1,5 @@
 import type { TopLevelSpec } from 'vega-lite';
-import { dimensionScale, PLOT_CONFIG, plotNumber } from './plotConfig.js';
+import { dimensionScale, plotFrame, plotNumber } from './plotConfig.js';
 
 /** Inputs of the error plot: per point dimension, energy, variance and PT2; a reference if known. */
 export interface ErrorPlotData {
@@ -32,11 +32,7 @@ export function errorPlot(d: ErrorPlotData): TopLevelSpec {
     }
   });
   return {
-    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    title: d.title,
-    width: 560,
-    height: 340,
-    config: PLOT_CONFIG,
+    ...plotFrame(d.title),
     data: { values: rows },
     mark: { type: 'line', point: true },
     encoding: {

@@ -9,6 +9,11 @@ export const PLOT_CONFIG = {
   view: { stroke: '#888' },
 };
 
+/** The top of every bitspan plot spec: schema, title, size and the shared look. */
+export function plotFrame(title: string, width = 560, height = 340): { $schema: string; title: string; width: number; height: number; config: typeof PLOT_CONFIG } {
+  return { $schema: 'https://vega.github.io/schema/vega-lite/v6.json', title, width, height, config: PLOT_CONFIG };
+}
+
 /** Round for plot data: 12 significant digits keep the SVG deterministic and small. */
 export function plotNumber(x: number): number {
   return Number(x.toPrecision(12));

@@ -1,14 +1,10 @@
 import type { TopLevelSpec } from 'vega-lite';
-import { PLOT_CONFIG, plotNumber } from './plotConfig.js';
+import { plotFrame, plotNumber } from './plotConfig.js';
 
 /** Bar chart of ⟨Z_q⟩ against qubit index q, on a fixed [−1, 1] axis. */
 export function zProfilePlot(title: string, z: number[]): TopLevelSpec {
   return {
-    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    title,
-    width: Math.min(900, Math.max(520, 14 * z.length)),
-    height: 260,
-    config: PLOT_CONFIG,
+    ...plotFrame(title, Math.min(900, Math.max(520, 14 * z.length)), 260),
     data: { values: z.map((v, q) => ({ qubit: q, z: plotNumber(v) })) },
     mark: { type: 'bar', color: '#1f77b4' },
     encoding: {
