@@ -48,6 +48,11 @@ export function expandFromFlags(f: ExpandFlags, steps = f.expand): ExpandOptions
   return { steps, threshold: f.expandThreshold, max: f.expandMax };
 }
 
+/** The estimate flags both `solve` and `sweep` pass on unchanged. */
+export function estimateFromFlags(f: EstimateFlags): EstimateFlags {
+  return { gap: f.gap, reference: f.reference, exact: f.exact, exactMaxDim: f.exactMaxDim, observables: f.observables, observe: f.observe };
+}
+
 /** Refuse flags that contradict each other. */
 export function checkEstimateFlags(f: EstimateFlags): void {
   if (f.exact && f.reference !== undefined) throw new BitspanError('bad-argument', '--exact and --reference both give the reference energy', 'use one of them');

@@ -7,7 +7,7 @@ import { zProfilePlot } from '../../analysis/plots/zProfilePlot.js';
 import type { CliIo } from '../io.js';
 import { parseElectrons } from '../../sectors/electronSector.js';
 import { positiveInt } from '../parse.js';
-import { addEstimateOptions, addExpandOptions, checkEstimateFlags, expandFromFlags, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
+import { addEstimateOptions, addExpandOptions, checkEstimateFlags, estimateFromFlags, expandFromFlags, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
 import { addSampleOptions, addSolverOptions, sampleAndSolverOptions, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
 import { solveSummary } from '../summary.js';
 import { progressFor } from '../progress.js';
@@ -90,12 +90,7 @@ export function solveCommand(io: CliIo): Command {
               // --gap only makes sense with the variance, so it implies --estimate.
               estimate: Boolean(f.estimate) || f.gap !== undefined,
               sampling: Boolean(f.estimate),
-              gap: f.gap,
-              reference: f.reference,
-              exact: f.exact,
-              exactMaxDim: f.exactMaxDim,
-              observables: f.observables,
-              observe: f.observe,
+              ...estimateFromFlags(f),
               batches: f.batches !== undefined ? { count: f.batches, size: f.batchSize!, seed: f.seed } : undefined,
             }
           : undefined,

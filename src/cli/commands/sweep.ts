@@ -11,7 +11,7 @@ import { zProfilePlot } from '../../analysis/plots/zProfilePlot.js';
 import type { ExtrapolateAgainst, SubsampleMode, SweepAxis, SweepReport } from '../../pipeline/sweep.js';
 import type { CliIo } from '../io.js';
 import { oneOf, positiveInt } from '../parse.js';
-import { addEstimateOptions, addExpandOptions, checkEstimateFlags, expandFromFlags, numberList, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
+import { addEstimateOptions, addExpandOptions, checkEstimateFlags, estimateFromFlags, expandFromFlags, numberList, type EstimateFlags, type ExpandFlags } from '../analysisOptions.js';
 import { addSampleOptions, addSolverOptions, sampleAndSolverOptions, type SampleFlags, type SolverFlags } from '../sectorOptions.js';
 import { sweepSummary } from '../sweepSummary.js';
 
@@ -66,12 +66,7 @@ export function sweepCommand(io: CliIo): Command {
         ...sampleAndSolverOptions(f),
         top: f.top,
         expand,
-        gap: f.gap,
-        reference: f.reference,
-        exact: f.exact,
-        exactMaxDim: f.exactMaxDim,
-        observables: f.observables,
-        observe: f.observe,
+        ...estimateFromFlags(f),
         extrapolate: f.extrapolate,
       });
       const json = JSON.stringify(report, null, 2) + '\n';
