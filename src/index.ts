@@ -50,7 +50,7 @@ export { solve, projectAndSolve, projectAndSolveSync, type SampledRunOptions, ch
 export { solveSamples, solveBasis, exactReference, resolveAnalysis, readStartState, EXACT_MAX_DIM, type SubspaceSolveOptions, type SolveAnalysisOptions } from './pipeline/solve.js';
 export { analyzeLowest, energyError, OBSERVABLE_CAVEAT, type AnalysisOptions, type AnalysisReport, type AnalysisInput, type ReferenceEnergy, type EnergyError, type EstimateDetails, type BatchReport } from './pipeline/analyze.js';
 export { expandSubspace, expandOnce, expandsByImportance, type ExpandOptions, type ExpansionReport, type ExpansionStep, type LowestState } from './pipeline/expand.js';
-export { sweep, defaultValues, checkValues, type SweepOptions, type SweepReport, type SweepPoint, type SweepAxis, type SubsampleMode, type ExtrapolateAgainst, type SweepExtrapolation } from './pipeline/sweep.js';
+export { sweep, defaultValues, checkValues, type SweepOptions, type PointEstimates, type SweepReport, type SweepPoint, type SweepAxis, type SubsampleMode, type ExtrapolateAgainst, type SweepExtrapolation } from './pipeline/sweep.js';
 
 export { externalPlan, diagonalEnergies, collectFlips, mergeFlips, externalAmplitudes, externalConfig, allocateFlipRecords, BUCKET_BITS, type ExternalAmplitudes, type ExternalPlan, type FlipRecords, type FlipSource, type MergeTarget, type AccumulateMode, type ExternalOptions } from './analysis/externalAmplitudes.js';
 export { varianceAndPt2, type EnergyErrorEstimate, type VarianceOptions } from './analysis/varianceAndPt2.js';

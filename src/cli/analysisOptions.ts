@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { BitspanError } from '../errors.js';
 import type { ExpandOptions } from '../pipeline/expand.js';
+import type { PointEstimates } from '../pipeline/sweep.js';
 import { nonNegativeInt, positiveInt, positiveNumber, realNumber } from './parse.js';
 
 /** Flags for expansion by steps of H (solve, and sweep's expand axis). */
@@ -28,14 +29,8 @@ export interface ExpandFlags {
   expandMax?: number;
 }
 
-export interface EstimateFlags {
-  gap?: number;
-  reference?: number;
-  exact?: boolean;
-  exactMaxDim?: number;
-  observables?: string;
-  observe?: boolean;
-}
+/** The estimate flags, as the pipeline takes them. */
+export type EstimateFlags = PointEstimates;
 
 /** Expansion options from the flags (undefined when no expansion was asked for). */
 export function expandFromFlags(f: ExpandFlags, steps = f.expand): ExpandOptions | undefined {

@@ -22,16 +22,8 @@ export type SubsampleMode = 'first' | 'random';
 /** Which estimate the energies are extrapolated against. */
 export type ExtrapolateAgainst = 'variance' | 'pt2';
 
-/** Everything `sweep` needs; files are read once, here. */
-export interface SweepOptions extends SampledRunOptions {
-  hamiltonian: string;
-  axis: SweepAxis;
-  /** Axis values (defaults depend on the axis); sorted ascending, duplicates dropped. */
-  values?: number[];
-  /** Shots axis: `first` N shots (values are shot counts) or nested `random` subsamples (values are fractions). */
-  subsample?: SubsampleMode;
-  /** Expansion applied at every point (other axes), or the selection used along the expand axis. */
-  expand?: ExpandOptions;
+/** The estimates asked for at every point (the `--estimate` family of flags). */
+export interface PointEstimates {
   gap?: number;
   reference?: number;
   exact?: boolean;
@@ -40,6 +32,18 @@ export interface SweepOptions extends SampledRunOptions {
   observables?: string;
   /** Per-qubit ⟨Z⟩ and correlations at every point. */
   observe?: boolean;
+}
+
+/** Everything `sweep` needs; files are read once, here. */
+export interface SweepOptions extends SampledRunOptions, PointEstimates {
+  hamiltonian: string;
+  axis: SweepAxis;
+  /** Axis values (defaults depend on the axis); sorted ascending, duplicates dropped. */
+  values?: number[];
+  /** Shots axis: `first` N shots (values are shot counts) or nested `random` subsamples (values are fractions). */
+  subsample?: SubsampleMode;
+  /** Expansion applied at every point (other axes), or the selection used along the expand axis. */
+  expand?: ExpandOptions;
   /** Which fit `extrapolation` reports (default `pt2`; both are in `extrapolations`). */
   extrapolate?: ExtrapolateAgainst;
   /** Called after each point (progress). */
