@@ -35,14 +35,14 @@ export function slotCountFor(size: number): number {
  * Slots hold the entry index in their low log2(slots) bits and a fingerprint (the hash's top bits)
  * above it, so a probe past a different configuration rarely has to read that configuration.
  */
-function slotLayout(slots: Int32Array): { indexBits: number; indexMask: number; fingerprintShift: number } {
+export function slotLayout(slots: Int32Array): { indexBits: number; indexMask: number; fingerprintShift: number } {
   const indexBits = 31 - Math.clz32(slots.length);
   const fingerprintBits = Math.max(0, 31 - indexBits);
   return { indexBits, indexMask: indexBits >= 31 ? 0x7fffffff : (1 << indexBits) - 1, fingerprintShift: 32 - fingerprintBits };
 }
 
 /** The fingerprint of hash h in a layout (0 when no bits are left for one). */
-function fingerprintOf(h: number, shift: number): number {
+export function fingerprintOf(h: number, shift: number): number {
   return shift >= 32 ? 0 : h >>> shift;
 }
 

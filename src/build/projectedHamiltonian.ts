@@ -2,7 +2,7 @@ import type { Basis } from '../bits/basis.js';
 import { popcount32 } from '../bits/packed.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
-import { rowScanPlan, rowScratch, scanRow, scanTables, type RowScanPlan } from './rowScan.js';
+import { rowScanPlan, rowScratch, scanRows, scanTables, type RowScanPlan } from './rowScan.js';
 import type { SparseMatrix } from './sparseMatrix.js';
 import { storedFromPieces, toSparseMatrix } from './storedHamiltonian.js';
 
@@ -100,12 +100,15 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   const s = rowScratch(plan);
   const tables = scanTables(plan);
   let nnz = 0;
-  for (let r = r0; r < r1; r++) {
-    const hits = scanRow(plan, basis, tables, r, s);
-    if (complex) {
-      diag[2 * (r - r0)] = s.diag[0]!;
-      diag[2 * (r - r0) + 1] = s.diag[1]!;
-    } else diag[r - r0] = s.diag[0]!;
+  for (let b0 = r0; b0 < r1; b0 += s.blockRows) {
+    const b1 = Math.min(r1, b0 + s.blockRows);
+    const hits = scanRows(plan, basis, tables, b0, b1, s);
+    for (let r = b0; r < b1; r++) {
+      if (complex) {
+        diag[2 * (r - r0)] = s.diag[2 * (r - b0)]!;
+        diag[2 * (r - r0) + 1] = s.diag[2 * (r - b0) + 1]!;
+      } else diag[r - r0] = s.diag[2 * (r - b0)]!;
+    }
     if (nnz + hits > cap) {
       while (nnz + hits > cap) cap *= 2;
       const c2 = new Int32Array(alloc(cap * 4));
@@ -115,16 +118,19 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
       v2.set(values);
       values = v2;
     }
-    const rowStart = nnz;
-    for (let i = 0; i < hits; i++, nnz++) {
-      cols[nnz] = s.cols[i]!;
-      if (complex) {
-        values[2 * nnz] = s.values[2 * i]!;
-        values[2 * nnz + 1] = s.values[2 * i + 1]!;
-      } else values[nnz] = s.values[2 * i]!;
+    let e = 0;
+    for (let r = b0; r < b1; r++) {
+      const rowStart = nnz;
+      for (const end = s.rowEnd[r - b0]!; e < end; e++, nnz++) {
+        cols[nnz] = s.cols[e]!;
+        if (complex) {
+          values[2 * nnz] = s.values[2 * e]!;
+          values[2 * nnz + 1] = s.values[2 * e + 1]!;
+        } else values[nnz] = s.values[2 * e]!;
+      }
+      sortRow(cols, values, rowStart, nnz, complex);
+      rowEnd[r - r0] = nnz;
     }
-    sortRow(cols, values, rowStart, nnz, complex);
-    rowEnd[r - r0] = nnz;
   }
   return { r0, r1, diag, rowEnd, cols: cols.subarray(0, nnz), values: values.subarray(0, w * nnz) };
 }
@@ -137,36 +143,41 @@ export function applyUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   const complex = plan.complex;
   const s = rowScratch(plan);
   const tables = scanTables(plan);
-  for (let r = r0; r < r1; r++) {
-    const hits = scanRow(plan, basis, tables, r, s);
-    if (!complex) {
-      const xr = x[r]!;
-      let acc = s.diag[0]! * xr;
-      for (let i = 0; i < hits; i++) {
-        const c = s.cols[i]!;
-        const v = s.values[2 * i]!;
-        acc += v * x[c]!;
-        y[c]! += v * xr;
+  for (let b0 = r0; b0 < r1; b0 += s.blockRows) {
+    const b1 = Math.min(r1, b0 + s.blockRows);
+    scanRows(plan, basis, tables, b0, b1, s);
+    let e = 0;
+    for (let r = b0; r < b1; r++) {
+      const end = s.rowEnd[r - b0]!;
+      const dr = s.diag[2 * (r - b0)]!;
+      if (!complex) {
+        const xr = x[r]!;
+        let acc = dr * xr;
+        for (; e < end; e++) {
+          const c = s.cols[e]!;
+          const v = s.values[2 * e]!;
+          acc += v * x[c]!;
+          y[c]! += v * xr;
+        }
+        y[r]! += acc;
+        continue;
       }
-      y[r]! += acc;
-      continue;
-    }
-    const xr = x[2 * r]!;
-    const xi = x[2 * r + 1]!;
-    const dr = s.diag[0]!;
-    y[2 * r]! += dr * xr;
-    y[2 * r + 1]! += dr * xi;
-    for (let i = 0; i < hits; i++) {
-      const c = s.cols[i]!;
-      const vr = s.values[2 * i]!;
-      const vi = s.values[2 * i + 1]!;
-      const cr = x[2 * c]!;
-      const ci = x[2 * c + 1]!;
-      y[2 * r]! += vr * cr - vi * ci;
-      y[2 * r + 1]! += vr * ci + vi * cr;
-      // Lower entry is the conjugate.
-      y[2 * c]! += vr * xr + vi * xi;
-      y[2 * c + 1]! += vr * xi - vi * xr;
+      const xr = x[2 * r]!;
+      const xi = x[2 * r + 1]!;
+      y[2 * r]! += dr * xr;
+      y[2 * r + 1]! += dr * xi;
+      for (; e < end; e++) {
+        const c = s.cols[e]!;
+        const vr = s.values[2 * e]!;
+        const vi = s.values[2 * e + 1]!;
+        const cr = x[2 * c]!;
+        const ci = x[2 * c + 1]!;
+        y[2 * r]! += vr * cr - vi * ci;
+        y[2 * r + 1]! += vr * ci + vi * cr;
+        // Lower entry is the conjugate.
+        y[2 * c]! += vr * xr + vi * xi;
+        y[2 * c + 1]! += vr * xi - vi * xr;
+      }
     }
   }
 }

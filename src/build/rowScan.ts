@@ -1,6 +1,6 @@
 import type { Basis } from '../bits/basis.js';
 import { linearHash, linearHashTables } from '../bits/configFilter.js';
-import { hashConfig, lookupConfigHashed } from '../bits/hashIndex.js';
+import { fingerprintOf, hashConfig, lookupConfigHashed, slotLayout } from '../bits/hashIndex.js';
 import { popcount32 } from '../bits/packed.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { SectorFlipTest } from './projectedHamiltonian.js';
@@ -31,14 +31,21 @@ export interface RowScanPlan {
   /** Off-diagonal groups, in FlipGroups order: the group index behind each. */
   offGroup: Int32Array;
   /**
-   * Two-qubit flips within one word pass both the ordering and the sector test iff
-   * (a[patternWord] & patternMask) === patternWant; patternWord is −1 for flips that need the
-   * general tests below.
+   * Two-qubit flips, pooled by (word of the low qubit, word of the high qubit, bit distance, kind):
+   * for pool p, the candidates of a row are the set bits of
+   * (a[flipPoolLow[p]] | flipPoolFree[p]) & ~align(a[flipPoolHigh[p]], flipPoolShift[p]) & flipPoolMask[p],
+   * i.e. top qubit 0 (a ⊕ flip above a) and, when a sector constraint holds both qubits
+   * (flipPoolFree 0), low qubit 1; bit q of pool p is group flipPoolGroup[32p + q] (index into offGroup).
    */
-  patternWord: Int32Array;
-  patternMask: Uint32Array;
-  /** Signed, to compare with `&` results. */
-  patternWant: Int32Array;
+  flipPoolLow: Int32Array;
+  flipPoolHigh: Int32Array;
+  /** Bit of the high qubit minus bit of the low qubit (negative across words is possible). */
+  flipPoolShift: Int32Array;
+  flipPoolMask: Uint32Array;
+  flipPoolFree: Uint32Array;
+  flipPoolGroup: Int32Array;
+  /** The other off-diagonal groups (indices into offGroup), tested one by one. */
+  generalGroups: Int32Array;
   /** Word and bit of the flip's highest qubit: a 1 there means a ⊕ flip < a (lower triangle). */
   topWord: Int32Array;
   topBit: Uint32Array;
@@ -76,9 +83,8 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
   const diagIm: number[] = [];
   const pools = new Map<string, { word: number; shift: number; mask: number; re: number }>();
   let constant = groups.constant;
-  const patternWord: number[] = [];
-  const patternMask: number[] = [];
-  const patternWant: number[] = [];
+  const flipPools = new Map<string, { low: number; high: number; shift: number; mask: number; free: number; groups: Int32Array }>();
+  const generalGroups: number[] = [];
   const off: number[] = [];
   const flipStart: number[] = [0];
   const flipWord: number[] = [];
@@ -129,10 +135,14 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
       }
     }
     flipStart.push(flipWord.length);
-    const pattern = twoQubitPattern(groups.flipMasks, g * nWords, nWords, test, g);
-    patternWord.push(pattern ? pattern.word : -1);
-    patternMask.push(pattern ? pattern.mask : 0);
-    patternWant.push(pattern ? pattern.want : 0);
+    const pair = twoQubitFlip(groups.flipMasks, g * nWords, nWords, test, g);
+    if (pair) {
+      const key = `${pair.low >>> 5},${pair.high >>> 5},${(pair.high & 31) - (pair.low & 31)},${pair.free}`;
+      let pool = flipPools.get(key);
+      if (!pool) flipPools.set(key, (pool = { low: pair.low >>> 5, high: pair.high >>> 5, shift: (pair.high & 31) - (pair.low & 31), mask: 0, free: pair.free, groups: new Int32Array(32) }));
+      pool.mask = (pool.mask | (1 << (pair.low & 31))) >>> 0;
+      pool.groups[pair.low & 31] = off.length - 1;
+    } else generalGroups.push(off.length - 1);
     linearHash(tables, groups.flipMasks, g * nWords, nWords, h);
     flipHash1.push(h[0]!);
     flipHash2.push(h[1]!);
@@ -154,6 +164,9 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
   }
   const offGroup = Int32Array.from(off);
   const pooled = [...pools.values()];
+  const flipPooled = [...flipPools.values()];
+  const flipPoolGroup = new Int32Array(32 * flipPooled.length);
+  flipPooled.forEach((p, i) => flipPoolGroup.set(p.groups, 32 * i));
   return {
     nWords,
     complex: groups.complex,
@@ -168,9 +181,13 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
     diagRe: Float64Array.from(diagRe),
     diagIm: Float64Array.from(diagIm),
     offGroup,
-    patternWord: Int32Array.from(patternWord),
-    patternMask: Uint32Array.from(patternMask),
-    patternWant: Int32Array.from(patternWant),
+    flipPoolLow: Int32Array.from(flipPooled, (p) => p.low),
+    flipPoolHigh: Int32Array.from(flipPooled, (p) => p.high),
+    flipPoolShift: Int32Array.from(flipPooled, (p) => p.shift),
+    flipPoolMask: Uint32Array.from(flipPooled, (p) => p.mask),
+    flipPoolFree: Uint32Array.from(flipPooled, (p) => p.free),
+    flipPoolGroup,
+    generalGroups: Int32Array.from(generalGroups),
     topWord: Int32Array.from(off, (g) => test.topWord[g]!),
     topBit: Uint32Array.from(off, (g) => test.topBit[g]!),
     flipStart: Int32Array.from(flipStart),
@@ -206,59 +223,153 @@ function sameWordPair(masks: Uint32Array, off: number, nWords: number): { word: 
 }
 
 /**
- * The one-word test for a two-qubit flip inside one word: without sector constraints it passes
- * iff the top qubit is 0; with them (which then hold both qubits, else the group is disallowed)
- * the weight is kept iff exactly one qubit is 1, so together: low qubit 1, top qubit 0.
+ * A flip of exactly two qubits, as its low and high qubit and the pool kind: without sector
+ * constraints on it only the ordering test remains (top qubit 0, free = all ones); with them (which
+ * then hold both qubits, else the group is disallowed) the weight is kept iff exactly one qubit is 1,
+ * so together: low qubit 1, top qubit 0 (free = 0). Undefined for other flips.
  */
-function twoQubitPattern(masks: Uint32Array, off: number, nWords: number, test: SectorFlipTest, g: number): { word: number; mask: number; want: number } | undefined {
-  const pair = sameWordPair(masks, off, nWords);
-  if (!pair) return undefined;
+function twoQubitFlip(masks: Uint32Array, off: number, nWords: number, test: SectorFlipTest, g: number): { low: number; high: number; free: number } | undefined {
+  const qubits: number[] = [];
+  for (let k = 0; k < nWords; k++) {
+    let m = masks[off + k]!;
+    while (m !== 0) {
+      const low = m & -m;
+      qubits.push(32 * k + 31 - Math.clz32(low));
+      if (qubits.length > 2) return undefined;
+      m ^= low;
+    }
+  }
+  if (qubits.length !== 2) return undefined;
   const nc = test.constraints;
-  const mask = masks[off + pair.word]!;
   let constrained = false;
   for (let c = 0; c < nc; c++) {
     const w = test.flipWeight[g * nc + c]!;
     if (w === 1) return undefined;
     if (w === 2) constrained = true;
   }
-  return constrained ? { word: pair.word, mask, want: pair.low } : { word: pair.word, mask: (mask ^ pair.low) >>> 0, want: 0 };
+  return { low: qubits[0]!, high: qubits[1]!, free: constrained ? 0 : 0xffffffff };
 }
 
-/** Scratch space for `scanRow`, one per thread. */
+/** Scratch space for `scanRows`, one per thread; a block holds up to `blockRows` rows. */
 export interface RowScratch {
-  /** The flipped configuration b. */
-  b: Uint32Array;
-  /** Linear hashes of the row. */
+  blockRows: number;
+  /** Linear hashes of the current row. */
   h: Uint32Array;
-  /** Columns (> row) of this row's upper entries, in group order. */
+  /** Candidate groups of the current row. */
+  cand: Int32Array;
+  /** Filter survivors of the block: row (within the block), group, flipped configuration, hash, slot. */
+  survRow: Int32Array;
+  survGroup: Int32Array;
+  survConfig: Uint32Array;
+  survHash: Uint32Array;
+  survSlot: Int32Array;
+  /** The block's diagonal elements (re, im per row). */
+  diag: Float64Array;
+  /** End of each block row's entries in cols/values. */
+  rowEnd: Int32Array;
+  /** Columns (> row) of the block's upper entries, row by row, in group order within a row. */
   cols: Int32Array;
   /** Their values (re, im interleaved). */
   values: Float64Array;
-  /** The diagonal element (re, im). */
-  diag: Float64Array;
-  /** Candidate groups of the current row. */
-  cand: Int32Array;
 }
+
+/** Survivors one block may hold at most, so blocks stay in cache whatever the number of groups. */
+const BLOCK_SURVIVORS = 4096;
 
 /** Scratch sized for `plan`. */
 export function rowScratch(plan: RowScanPlan): RowScratch {
   const n = plan.offGroup.length;
-  return { b: new Uint32Array(plan.nWords), h: new Uint32Array(2), cols: new Int32Array(n), values: new Float64Array(2 * n), diag: new Float64Array(2), cand: new Int32Array(n) };
+  const blockRows = Math.max(1, Math.min(32, Math.floor(BLOCK_SURVIVORS / Math.max(1, n))));
+  const cap = Math.max(1, blockRows * n);
+  return {
+    blockRows,
+    h: new Uint32Array(2),
+    cand: new Int32Array(Math.max(1, n)),
+    survRow: new Int32Array(cap),
+    survGroup: new Int32Array(cap),
+    survConfig: new Uint32Array(cap * plan.nWords),
+    survHash: new Uint32Array(cap),
+    survSlot: new Int32Array(cap),
+    diag: new Float64Array(2 * blockRows),
+    rowEnd: new Int32Array(blockRows),
+    cols: new Int32Array(cap),
+    values: new Float64Array(2 * cap),
+  };
 }
 
 /**
- * Row `row` of H_S = P H P: the diagonal into s.diag and the entries right of the diagonal into
- * s.cols/s.values (group order); returns their count. Cheapest rejections first: the ordering
- * bit, then the sector, then the Bloom filter; the hash table is probed only for likely hits.
+ * Rows r0..r1 (at most s.blockRows) of H_S = P H P: the diagonal into s.diag and the entries right of
+ * the diagonal into s.cols/s.values, row by row (s.rowEnd); returns their count. Cheapest rejections
+ * first: the ordering bit, then the sector, then the Bloom filter; the hash table is probed only for
+ * likely hits, and for a whole block at once, so the cache misses of different lookups overlap.
  */
-export function scanRow(plan: RowScanPlan, basis: Basis, tables: Uint32Array, row: number, s: RowScratch): number {
+export function scanRows(plan: RowScanPlan, basis: Basis, tables: Uint32Array, r0: number, r1: number, s: RowScratch): number {
   const nWords = plan.nWords;
   const states = basis.states;
-  const aOff = row * nWords;
-  const { diagStart, diagWord, diagMask, diagRe, diagIm } = plan;
+  const nOff = plan.offGroup.length;
+  const { flipHash1, flipHash2, generalGroups } = plan;
+  const { flipPoolLow, flipPoolHigh, flipPoolShift, flipPoolMask, flipPoolFree, flipPoolGroup } = plan;
+  const filter = basis.filter;
+  const wordMask = filter.length - 1;
+  const { cand, survRow, survGroup } = s;
+  let nSurv = 0;
+  for (let r = r0; r < r1; r++) {
+    const aOff = r * nWords;
+    diagonalOf(plan, states, aOff, s.diag, 2 * (r - r0));
+    if (nOff === 0) continue;
+    // Candidates: pooled two-qubit flips bit-parallel, the others one by one.
+    let n = 0;
+    for (let p = 0, np = flipPoolMask.length; p < np; p++) {
+      const hi = states[aOff + flipPoolHigh[p]!]!;
+      const sh = flipPoolShift[p]!;
+      let x = (states[aOff + flipPoolLow[p]!]! | flipPoolFree[p]!) & ~(sh >= 0 ? hi >>> sh : hi << -sh) & flipPoolMask[p]!;
+      while (x !== 0) {
+        cand[n++] = flipPoolGroup[32 * p + 31 - Math.clz32(x & -x)]!;
+        x &= x - 1;
+      }
+    }
+    for (let i = 0, ng = generalGroups.length; i < ng; i++) {
+      const g = generalGroups[i]!;
+      if (passesGeneralTests(plan, states, aOff, g)) cand[n++] = g;
+    }
+    // Probe the filter for all of them, branch-free, so the CPU overlaps the cache misses.
+    linearHash(tables, states, aOff, nWords, s.h);
+    const ha1 = s.h[0]!;
+    const ha2 = s.h[1]!;
+    const local = r - r0;
+    for (let i = 0; i < n; i++) {
+      const g = cand[i]!;
+      const h1 = ha1 ^ flipHash1[g]!;
+      // filterBits, inlined: this loop runs some fifty times a row.
+      let b = Math.imul(ha2 ^ flipHash2[g]! ^ (h1 >>> 16), 0x85ebca6b);
+      b ^= b >>> 15;
+      const v = filter[h1 & wordMask]!;
+      survGroup[nSurv] = g;
+      survRow[nSurv] = local;
+      nSurv += (v >>> (b & 31)) & (v >>> ((b >>> 5) & 31)) & (v >>> ((b >>> 10) & 31)) & 1;
+    }
+  }
+  lookUpSurvivors(plan, basis, r0, nSurv, s);
+  // Elements, in row order.
+  const { survSlot, survConfig, rowEnd, cols, values } = s;
+  let hits = 0;
+  let row = 0;
+  for (let i = 0; i < nSurv; i++) {
+    const local = survRow[i]!;
+    while (row < local) rowEnd[row++] = hits;
+    const col = survSlot[i]!;
+    if (col < 0) continue;
+    if (elementOf(plan, plan.offGroup[survGroup[i]!]!, survConfig, i * nWords, values, 2 * hits)) cols[hits++] = col;
+  }
+  while (row < r1 - r0) rowEnd[row++] = hits;
+  return hits;
+}
+
+/** Diagonal element of the row at aOff into out[at], out[at+1]. */
+function diagonalOf(plan: RowScanPlan, states: Uint32Array, aOff: number, out: Float64Array, at: number): void {
+  const { diagStart, diagWord, diagMask, diagRe, diagIm, pairWord, pairShift, pairMask, pairRe } = plan;
   let dr = plan.constant;
   let di = 0;
-  const { pairWord, pairShift, pairMask, pairRe } = plan;
   for (let p = 0, np = pairRe.length; p < np; p++) {
     const w = states[aOff + pairWord[p]!]!;
     dr -= 2 * popcount32((w ^ (w >>> pairShift[p]!)) & pairMask[p]!) * pairRe[p]!;
@@ -274,45 +385,51 @@ export function scanRow(plan: RowScanPlan, basis: Basis, tables: Uint32Array, ro
       di += diagIm[t]!;
     }
   }
-  s.diag[0] = dr;
-  s.diag[1] = di;
-  const nOff = plan.offGroup.length;
-  if (nOff === 0) return 0;
-  const { patternWord, patternMask, patternWant, flipHash1, flipHash2 } = plan;
-  const filter = basis.filter;
-  const lineMask = filter.length / 16 - 1;
-  linearHash(tables, states, aOff, nWords, s.h);
-  const ha1 = s.h[0]!;
-  const ha2 = s.h[1]!;
-  // Three passes so the CPU overlaps the filter's cache misses: pick the groups that pass the
-  // ordering and sector tests, probe the filter for all of them, then look up the survivors.
-  // The first two passes are branch-free (an unpredictable branch per flip would stall them).
-  const cand = s.cand;
-  let n = 0;
-  for (let g = 0; g < nOff; g++) {
-    const pw = patternWord[g]!;
-    cand[n] = g;
-    if (pw >= 0) {
-      const d = (states[aOff + pw]! & patternMask[g]!) ^ patternWant[g]!;
-      n += 1 ^ ((d | -d) >>> 31);
-    } else if (passesGeneralTests(plan, states, aOff, g)) n++;
+  out[at] = dr;
+  out[at + 1] = di;
+}
+
+/**
+ * Basis index of every survivor's flipped configuration into s.survSlot (−1 when absent), in three
+ * sweeps: flip and hash all and load their first slots, then compare the configurations those slots
+ * point to, then finish the few probes that must walk on. Each sweep's loads are independent.
+ */
+function lookUpSurvivors(plan: RowScanPlan, basis: Basis, r0: number, nSurv: number, s: RowScratch): void {
+  const nWords = plan.nWords;
+  const { states, slots } = basis;
+  const { survRow, survGroup, survConfig, survHash, survSlot } = s;
+  const { flipStart, flipWord, flipMask } = plan;
+  const mask = slots.length - 1;
+  for (let i = 0; i < nSurv; i++) {
+    const aOff = (r0 + survRow[i]!) * nWords;
+    const bOff = i * nWords;
+    for (let k = 0; k < nWords; k++) survConfig[bOff + k] = states[aOff + k]!;
+    const g = survGroup[i]!;
+    for (let e = flipStart[g]!, end = flipStart[g + 1]!; e < end; e++) survConfig[bOff + flipWord[e]!]! ^= flipMask[e]!;
+    const h = hashConfig(survConfig, bOff, nWords);
+    survHash[i] = h;
+    survSlot[i] = slots[h & mask]!;
   }
-  let m = 0;
-  for (let i = 0; i < n; i++) {
-    const g = cand[i]!;
-    const h2 = ha2 ^ flipHash2[g]!;
-    const line = ((ha1 ^ flipHash1[g]!) & lineMask) << 4;
-    cand[m] = g;
-    m += (filter[line + ((h2 >>> 5) & 15)]! >>> (h2 & 31)) & (filter[line + ((h2 >>> 14) & 15)]! >>> ((h2 >>> 9) & 31)) & (filter[line + ((h2 >>> 23) & 15)]! >>> ((h2 >>> 18) & 31)) & 1;
+  const { indexBits, indexMask, fingerprintShift } = slotLayout(slots);
+  for (let i = 0; i < nSurv; i++) {
+    const v = survSlot[i]!;
+    if (v === -1) continue;
+    const h = survHash[i]!;
+    // −2: the first slot holds another configuration, so the probe walks on below.
+    let found = -2;
+    if (v >>> indexBits === fingerprintOf(h, fingerprintShift)) {
+      const idx = v & indexMask;
+      const base = idx * nWords;
+      const bOff = i * nWords;
+      let k = 0;
+      while (k < nWords && states[base + k] === survConfig[bOff + k]) k++;
+      if (k === nWords) found = idx;
+    }
+    survSlot[i] = found;
   }
-  let hits = 0;
-  for (let i = 0; i < m; i++) {
-    const g = cand[i]!;
-    const col = flippedIndex(plan, basis, aOff, g, s.b);
-    if (col < 0) continue;
-    if (elementOf(plan, plan.offGroup[g]!, s.b, s.values, 2 * hits)) s.cols[hits++] = col;
+  for (let i = 0; i < nSurv; i++) {
+    if (survSlot[i] === -2) survSlot[i] = lookupConfigHashed(states, slots, nWords, survConfig, i * nWords, survHash[i]!);
   }
-  return hits;
 }
 
 /** The ordering test (a ⊕ flip above a) and the sector test for flip group g. */
@@ -327,25 +444,17 @@ function passesGeneralTests(plan: RowScanPlan, states: Uint32Array, aOff: number
   return true;
 }
 
-/** Index of a ⊕ flip_g in the basis (b receives a ⊕ flip_g), or −1. */
-function flippedIndex(plan: RowScanPlan, basis: Basis, aOff: number, g: number, b: Uint32Array): number {
-  const nWords = plan.nWords;
-  for (let k = 0; k < nWords; k++) b[k] = basis.states[aOff + k]!;
-  for (let e = plan.flipStart[g]!, end = plan.flipStart[g + 1]!; e < end; e++) b[plan.flipWord[e]!]! ^= plan.flipMask[e]!;
-  return lookupConfigHashed(basis.states, basis.slots, nWords, b, 0, hashConfig(b, 0, nWords));
-}
-
 /**
  * ⟨a|H_g|b⟩ = Σ_t coeff_t · i^{#Y} · (−1)^{popcount(b & z_t)} into out[at], out[at+1]; false when it
  * is exactly zero (e.g. XX + YY on parallel spins), so no explicit zero is stored.
  */
-function elementOf(plan: RowScanPlan, group: number, b: Uint32Array, out: Float64Array, at: number): boolean {
+function elementOf(plan: RowScanPlan, group: number, b: Uint32Array, bOff: number, out: Float64Array, at: number): boolean {
   const nWords = plan.nWords;
   let vr = 0;
   let vi = 0;
   for (let t = plan.termStart[group]!, end = plan.termStart[group + 1]!; t < end; t++) {
     let x = 0;
-    for (let k = 0; k < nWords; k++) x ^= b[k]! & plan.zMasks[t * nWords + k]!;
+    for (let k = 0; k < nWords; k++) x ^= b[bOff + k]! & plan.zMasks[t * nWords + k]!;
     if (popcount32(x) & 1) {
       vr -= plan.phaseRe[t]!;
       vi -= plan.phaseIm[t]!;
@@ -371,6 +480,9 @@ export function upperPerRowEstimate(basis: Basis, plan: RowScanPlan, sample = 20
   const scratch = rowScratch(plan);
   const tables = scanTables(plan);
   let upper = 0;
-  for (let s = 0; s < n; s++) upper += scanRow(plan, basis, tables, Math.floor((s * basis.dim) / n), scratch);
+  for (let s = 0; s < n; s++) {
+    const row = Math.floor((s * basis.dim) / n);
+    upper += scanRows(plan, basis, tables, row, row + 1, scratch);
+  }
   return upper / n;
 }
