@@ -15,10 +15,12 @@ export interface RowScanPlan {
   complex: boolean;
   constant: number;
   /**
-   * Real two-qubit Z terms within one word, pooled by (word, distance, phase): pool p counts the pairs
-   * (q, q + pairShift[p]) with q in pairMask[p] whose bits differ, each adding −2·phase.
+   * Real two-qubit Z terms, pooled by (word of the low qubit, word of the high qubit, bit distance,
+   * phase): pool p counts the bits q of pairMask[p] where a[pairLow[p]] and
+   * align(a[pairHigh[p]], pairShift[p]) differ, each adding −2·phase.
    */
-  pairWord: Int32Array;
+  pairLow: Int32Array;
+  pairHigh: Int32Array;
   pairShift: Int32Array;
   pairMask: Uint32Array;
   pairRe: Float64Array;
@@ -81,7 +83,7 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
   const diagMask: number[] = [];
   const diagRe: number[] = [];
   const diagIm: number[] = [];
-  const pools = new Map<string, { word: number; shift: number; mask: number; re: number }>();
+  const pools = new Map<string, { low: number; high: number; shift: number; mask: number; re: number }>();
   let constant = groups.constant;
   const flipPools = new Map<string, { low: number; high: number; shift: number; mask: number; free: number; groups: Int32Array }>();
   const generalGroups: number[] = [];
@@ -101,14 +103,17 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
   for (let g = 0; g < groups.count; g++) {
     if (test.topWord[g]! < 0) {
       for (let t = groups.termStart[g]!; t < groups.termStart[g + 1]!; t++) {
-        const pair = groups.phaseIm[t] === 0 ? sameWordPair(groups.zMasks, t * nWords, nWords) : undefined;
+        const pair = groups.phaseIm[t] === 0 ? twoQubits(groups.zMasks, t * nWords, nWords) : undefined;
         if (pair) {
           // (−1)^{a_q ⊕ a_q'} = 1 − 2·[a_q ≠ a_q']: the 1 goes to the constant.
           const re = groups.phaseRe[t]!;
-          const key = `${pair.word},${pair.shift},${re}`;
-          const pool = pools.get(key);
-          if (pool) pool.mask |= pair.low;
-          else pools.set(key, { word: pair.word, shift: pair.shift, mask: pair.low, re });
+          const low = pair.low >>> 5;
+          const high = pair.high >>> 5;
+          const shift = (pair.high & 31) - (pair.low & 31);
+          const key = `${low},${high},${shift},${re}`;
+          let pool = pools.get(key);
+          if (!pool) pools.set(key, (pool = { low, high, shift, mask: 0, re }));
+          pool.mask = (pool.mask | (1 << (pair.low & 31))) >>> 0;
           constant += re;
           continue;
         }
@@ -171,7 +176,8 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
     nWords,
     complex: groups.complex,
     constant,
-    pairWord: Int32Array.from(pooled, (p) => p.word),
+    pairLow: Int32Array.from(pooled, (p) => p.low),
+    pairHigh: Int32Array.from(pooled, (p) => p.high),
     pairShift: Int32Array.from(pooled, (p) => p.shift),
     pairMask: Uint32Array.from(pooled, (p) => p.mask),
     pairRe: Float64Array.from(pooled, (p) => p.re),
@@ -207,28 +213,8 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
   };
 }
 
-/** The word, distance and lower bit of a Z mask that is exactly two qubits in one word, else undefined. */
-function sameWordPair(masks: Uint32Array, off: number, nWords: number): { word: number; shift: number; low: number } | undefined {
-  let word = -1;
-  for (let k = 0; k < nWords; k++) {
-    if (masks[off + k] === 0) continue;
-    if (word >= 0) return undefined;
-    word = k;
-  }
-  if (word < 0) return undefined;
-  const m = masks[off + word]!;
-  if (popcount32(m) !== 2) return undefined;
-  const low = m & -m;
-  return { word, shift: 31 - Math.clz32(m) - (31 - Math.clz32(low)), low: low >>> 0 };
-}
-
-/**
- * A flip of exactly two qubits, as its low and high qubit and the pool kind: without sector
- * constraints on it only the ordering test remains (top qubit 0, free = all ones); with them (which
- * then hold both qubits, else the group is disallowed) the weight is kept iff exactly one qubit is 1,
- * so together: low qubit 1, top qubit 0 (free = 0). Undefined for other flips.
- */
-function twoQubitFlip(masks: Uint32Array, off: number, nWords: number, test: SectorFlipTest, g: number): { low: number; high: number; free: number } | undefined {
+/** The two qubits (low, high) of a mask that has exactly two, else undefined. */
+function twoQubits(masks: Uint32Array, off: number, nWords: number): { low: number; high: number } | undefined {
   const qubits: number[] = [];
   for (let k = 0; k < nWords; k++) {
     let m = masks[off + k]!;
@@ -239,7 +225,18 @@ function twoQubitFlip(masks: Uint32Array, off: number, nWords: number, test: Sec
       m ^= low;
     }
   }
-  if (qubits.length !== 2) return undefined;
+  return qubits.length === 2 ? { low: qubits[0]!, high: qubits[1]! } : undefined;
+}
+
+/**
+ * A flip of exactly two qubits, as its low and high qubit and the pool kind: without sector
+ * constraints on it only the ordering test remains (top qubit 0, free = all ones); with them (which
+ * then hold both qubits, else the group is disallowed) the weight is kept iff exactly one qubit is 1,
+ * so together: low qubit 1, top qubit 0 (free = 0). Undefined for other flips.
+ */
+function twoQubitFlip(masks: Uint32Array, off: number, nWords: number, test: SectorFlipTest, g: number): { low: number; high: number; free: number } | undefined {
+  const pair = twoQubits(masks, off, nWords);
+  if (!pair) return undefined;
   const nc = test.constraints;
   let constrained = false;
   for (let c = 0; c < nc; c++) {
@@ -247,7 +244,7 @@ function twoQubitFlip(masks: Uint32Array, off: number, nWords: number, test: Sec
     if (w === 1) return undefined;
     if (w === 2) constrained = true;
   }
-  return { low: qubits[0]!, high: qubits[1]!, free: constrained ? 0 : 0xffffffff };
+  return { ...pair, free: constrained ? 0 : 0xffffffff };
 }
 
 /** Scratch space for `scanRows`, one per thread; a block holds up to `blockRows` rows. */
@@ -367,12 +364,13 @@ export function scanRows(plan: RowScanPlan, basis: Basis, tables: Uint32Array, r
 
 /** Diagonal element of the row at aOff into out[at], out[at+1]. */
 function diagonalOf(plan: RowScanPlan, states: Uint32Array, aOff: number, out: Float64Array, at: number): void {
-  const { diagStart, diagWord, diagMask, diagRe, diagIm, pairWord, pairShift, pairMask, pairRe } = plan;
+  const { diagStart, diagWord, diagMask, diagRe, diagIm, pairLow, pairHigh, pairShift, pairMask, pairRe } = plan;
   let dr = plan.constant;
   let di = 0;
   for (let p = 0, np = pairRe.length; p < np; p++) {
-    const w = states[aOff + pairWord[p]!]!;
-    dr -= 2 * popcount32((w ^ (w >>> pairShift[p]!)) & pairMask[p]!) * pairRe[p]!;
+    const hi = states[aOff + pairHigh[p]!]!;
+    const sh = pairShift[p]!;
+    dr -= 2 * popcount32((states[aOff + pairLow[p]!]! ^ (sh >= 0 ? hi >>> sh : hi << -sh)) & pairMask[p]!) * pairRe[p]!;
   }
   for (let t = 0, nt = diagRe.length; t < nt; t++) {
     let x = 0;
