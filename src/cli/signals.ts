@@ -1,4 +1,5 @@
 import { rmSync } from 'node:fs';
+import { setFlagsFromString } from 'node:v8';
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import { workerScript } from '../util/packageRoot.js';
 
@@ -41,6 +42,9 @@ export function runCliSupervised(argv: string[], opts: { script?: string } = {})
   channel.port1.on('message', track);
   channel.port1.unref();
   const data: CliWorkerData = { argv, stderrIsTTY: Boolean(process.stderr.isTTY), temps: channel.port2 };
+  // Threads made from now on get V8's gc hook: a solve collects between stages (collectGarbage) so
+  // its peak memory does not hold the previous stage's dropped arrays.
+  setFlagsFromString('--expose-gc');
   const worker = new Worker(opts.script ?? workerScript('cli'), { workerData: data, transferList: [channel.port2] });
 
   let interrupted = false;

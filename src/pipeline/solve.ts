@@ -24,6 +24,7 @@ import type { ExpandOptions, ExpansionReport } from './expand.js';
 import type { Fcidump } from '../io/fcidump.js';
 import type { ProductSpaceReport, RepairReport } from './solveSubspace.js';
 import type { IntegralsReport } from './solveWithRepair.js';
+import { collectGarbage } from '../util/collectGarbage.js';
 
 /** The dumps, the sector filters and the solver settings, shared by `solve` and `sweep`. */
 export interface SampledRunOptions {
@@ -282,6 +283,9 @@ export function topConfigurations(basis: Basis, v: Float64Array, complex: boolea
   return best.map((i) => ({ bitstring: formatBitstring(basis.states, i * basis.nWords, basis.qubits, qubit0), probability: prob[i]! }));
 }
 
+/** Dimension from which a solve collects garbage between stages (a collection costs a few milliseconds). */
+const COLLECT_MIN_DIM = 100000;
+
 /** Solver settings shared by every command that diagonalises a projected Hamiltonian. */
 export interface SolverSettings {
   eigs?: number;
@@ -325,6 +329,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   const compiled = compileSector(sector, basis.qubits, basis.nWords);
   const scan = rowScanPlan(groups, sectorFlipTest(groups, compiled));
   const eigs = settings.eigs ?? 1;
+  // Large runs start with what the previous stage dropped (e.g. the sample tables) given back.
+  if (basis.dim >= COLLECT_MIN_DIM) collectGarbage();
   const plan = planMemory(basis, scan, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
   const shared = basis.states.buffer instanceof SharedArrayBuffer;
   // The product workers start now, so they are ready by the end of the build.
@@ -345,6 +351,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
     const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan };
     op = threads > 1 && shared ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y)) };
   }
+  // The build's pieces are garbage now: give them back before Lanczos allocates its vectors.
+  if (basis.dim >= COLLECT_MIN_DIM) collectGarbage();
   const t1 = performance.now();
   let eigen: LanczosResult;
   const reordered = matrix?.order ? matrix : undefined;
@@ -415,9 +423,6 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
   const clock = stageClock(timings);
   const hamiltonian = await readHamiltonian(hamiltonianFile);
   clock.lap('readHamiltonian');
-  const samples = await readRunSamples(opts);
-  clock.lap('readSamples');
-  checkRegister(hamiltonian, hamiltonianFile, samples.qubits, opts.samples[0]!);
   const sector = opts.sector ?? { weights: [] };
   const settings: SolverSettings = {
     eigs: opts.eigs,
@@ -429,16 +434,35 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     onBuildProgress: opts.onBuildProgress,
     onSolveProgress: opts.onSolveProgress,
   };
-  const analysis = opts.analysis ? await resolveAnalysis(opts.analysis, hamiltonian, samples.qubits, sector, settings, timings) : undefined;
-  const start = opts.startState ? { file: opts.startState, state: await readStartState(opts.startState, samples.qubits, opts.qubit0) } : undefined;
-  const outcome = await solveSamples(
-    hamiltonian,
-    samples,
-    { hamiltonianFile, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start, analysis },
-    timings,
-  );
+  const selected = await readAndSelect(opts, hamiltonian, hamiltonianFile, sector, settings, clock, timings);
+  const sub: SubspaceSolveOptions = { hamiltonianFile, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start: selected.start, analysis: selected.analysis };
+  const outcome = await solveSelected(hamiltonian, selected.sampled, selected.report, sub, selected.samples, timings);
   clock.finish();
   return outcome;
+}
+
+/**
+ * Read the dumps and select the subspace. The samples are returned only when an analysis reads
+ * them: otherwise nothing holds them once this returns, so their tables are freed before the build.
+ */
+async function readAndSelect(
+  opts: SolveOptions,
+  hamiltonian: PauliSum,
+  hamiltonianFile: string,
+  sector: Sector,
+  settings: SolverSettings,
+  clock: ReturnType<typeof stageClock>,
+  timings: Record<string, number>,
+): Promise<{ sampled: Basis; report: SubspaceReport; samples?: SampleSet; analysis?: AnalysisOptions; start?: SubspaceSolveOptions['start'] }> {
+  const samples = await readRunSamples(opts);
+  clock.lap('readSamples');
+  checkRegister(hamiltonian, hamiltonianFile, samples.qubits, opts.samples[0]!);
+  const analysis = opts.analysis ? await resolveAnalysis(opts.analysis, hamiltonian, samples.qubits, sector, settings, timings) : undefined;
+  const start = opts.startState ? { file: opts.startState, state: await readStartState(opts.startState, samples.qubits, opts.qubit0) } : undefined;
+  const t = performance.now();
+  const { basis: sampled, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: (settings.threads ?? defaultThreads()) > 1 });
+  timings.filter = (performance.now() - t) / 1000;
+  return { sampled, report, samples: analysis ? samples : undefined, analysis, start };
 }
 
 /** Options of `solveSamples` and `solveBasis`: `solve`'s options with every file already read. */
@@ -460,14 +484,19 @@ export interface SubspaceSolveOptions extends Omit<SolverSettings, 'start'> {
  * calls this for every point, so each point is exactly a solve. `timings` receives the stages.
  */
 export async function solveSamples(hamiltonian: PauliSum, samples: SampleSet, opts: SubspaceSolveOptions, timings: Record<string, number> = {}): Promise<SolveOutcome> {
-  let t = performance.now();
+  const t = performance.now();
   const threads = opts.threads ?? defaultThreads();
   const { basis: sampled, report } = selectSubspace(samples, { sector: opts.sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: threads > 1 });
   timings.filter = (performance.now() - t) / 1000;
+  return solveSelected(hamiltonian, sampled, report, opts, samples, timings);
+}
+
+/** Expand the selected subspace if asked, then `solveBasis`; `samples` only for the analysis that reads them. */
+export async function solveSelected(hamiltonian: PauliSum, sampled: Basis, report: SubspaceReport, opts: SubspaceSolveOptions, samples: SampleSet | undefined, timings: Record<string, number> = {}): Promise<SolveOutcome> {
   let basis = sampled;
   let expansion: ExpansionReport | undefined;
   if (opts.expand && opts.expand.steps > 0) {
-    t = performance.now();
+    const t = performance.now();
     const lowestOf = async (b: Basis): Promise<{ energy: number; psi: Float64Array }> => {
       const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1 });
       return { energy: p.eigen.values[0]!, psi: p.eigen.vectors[0]! };
