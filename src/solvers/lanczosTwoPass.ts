@@ -21,13 +21,18 @@ export interface TwoPassOptions {
  */
 export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): LanczosResult {
   const len = op.complex ? 2 * op.dim : op.dim;
-  const start = new Float64Array(len);
-  if (opts.start && opts.start.length === len) start.set(opts.start);
-  else {
-    const rng = seededUniform(opts.seed);
-    for (let i = 0; i < len; i++) start[i] = rng.next() - 0.5;
-  }
-  scale(start, 1 / norm(start));
+  // The normalised start vector is written into v twice (once per pass) rather than kept: a random
+  // one is drawn again from the same seed, which costs less than holding another vector.
+  let startScale = 0;
+  const writeStart = (v: Float64Array): void => {
+    if (opts.start && opts.start.length === len) v.set(opts.start);
+    else {
+      const rng = seededUniform(opts.seed);
+      for (let i = 0; i < len; i++) v[i] = rng.next() - 0.5;
+    }
+    if (startScale === 0) startScale = 1 / norm(v);
+    scale(v, startScale);
+  };
   const alpha: number[] = [];
   const beta: number[] = [];
   let matvecs = 0;
@@ -40,7 +45,7 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
   let v = vector();
   let w = vector();
   // Pass 1: coefficients only.
-  v.set(start);
+  writeStart(v);
   for (let j = 0; j < opts.maxIterations && j < op.dim; j++) {
     op.apply(v, w);
     matvecs++;
@@ -72,7 +77,7 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
   // Pass 2: replay the recurrence with the same coefficients and accumulate x = Σ y_j v_j.
   const x = vector();
   vPrev.fill(0);
-  v.set(start);
+  writeStart(v);
   for (let j = 0; j < steps; j++) {
     if (j + 1 === steps) {
       axpy(y[j]!, 0, v, x, false);
