@@ -12,7 +12,7 @@ import { rowScanPlan } from '../src/build/rowScan.js';
 import { applyStoredRows, reorderForLocality, storedBytes } from '../src/build/storedHamiltonian.js';
 import { MatvecTeam } from '../src/parallel/matvecTeam.js';
 import { REORDER_MIN_DIM } from '../src/pipeline/solve.js';
-import { closeThreadPools } from '../src/parallel/threadPool.js';
+import { closeSolveWorkers } from '../src/parallel/solveWorkers.js';
 
 /** a = b + s·c on 3 × 256 MiB arrays, best of 5 after a warm-up that faults the pages in. */
 function streamTriad(): Record<string, number> {
@@ -67,7 +67,7 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
   const team = new MatvecTeam({ kind: 'stored', complex: false, dim: n, matrix: m }, 2);
   const two = time(() => team.apply(x, y));
   team.close();
-  await closeThreadPools();
+  closeSolveWorkers();
   return { build1, build2, buildSpeedup: build1 / build2, matvec1: one, matvec2: two, bandwidth1GBs: bytes / one / 1e9, bandwidth2GBs: bytes / two / 1e9, bytesPerProduct: bytes };
 }
 

@@ -1,5 +1,6 @@
 import type { Basis } from '../bits/basis.js';
-import { runInPool, threadPool } from '../parallel/threadPool.js';
+import { MessageChannel } from 'node:worker_threads';
+import { errorFromWorker, releaseSolveWorkers, takeSolveWorkers, type BuildReply, type SolveWorkerMessage } from '../parallel/solveWorkers.js';
 import { buildUpperRows, type UpperPiece } from './projectedHamiltonian.js';
 import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
@@ -34,7 +35,7 @@ export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): Uppe
 }
 
 /**
- * Build H_S on this thread and threads−1 pool workers: the basis must sit on SharedArrayBuffers
+ * Build H_S on this thread and threads−1 solve workers: the basis must sit on SharedArrayBuffers
  * (makeBasis with `shared`); every thread takes row chunks from a shared counter (several per
  * thread for balance), and the upper-triangle pieces are mirrored, in row order, into one stored
  * Hamiltonian. Identical output for any thread count.
@@ -65,18 +66,38 @@ export async function buildProjectedHamiltonianParallel(
     step: Math.ceil(basis.dim / Math.min(64, threads * 8)),
     progress: new Int32Array(new SharedArrayBuffer(8)),
   };
-  const pool = threadPool('buildRows', threads - 1);
-  const helpers = Array.from({ length: threads - 1 }, () => runInPool<SharedChunks, UpperPiece[]>(pool, work));
-  // This thread takes chunks too, one at a time, yielding between them so the pool can start.
+  const workers = takeSolveWorkers(threads - 1);
+  const helpers = workers.map(
+    (w) =>
+      new Promise<UpperPiece[]>((resolve, reject) => {
+        const { port1, port2 } = new MessageChannel();
+        const died = (): void => reject(new Error('a build worker stopped before it finished'));
+        w.once('exit', died);
+        port1.once('message', (m: BuildReply) => {
+          w.off('exit', died);
+          port1.close();
+          if ('error' in m) reject(errorFromWorker(m.error));
+          else resolve(m.pieces);
+        });
+        w.postMessage({ build: work, reply: port2 } satisfies SolveWorkerMessage, [port2]);
+      }),
+  );
+  // This thread takes chunks too, one at a time, yielding between them so replies can arrive.
   const own: UpperPiece[] = [];
-  for (;;) {
-    await new Promise<void>((resolve) => setImmediate(resolve));
-    const got = buildTakenChunks(work, 1);
-    if (got.length === 0) break;
-    own.push(...got);
-    onProgress?.(Atomics.load(work.progress, 1), basis.dim);
+  let helped: UpperPiece[][];
+  try {
+    for (;;) {
+      await new Promise<void>((resolve) => setImmediate(resolve));
+      const got = buildTakenChunks(work, 1);
+      if (got.length === 0) break;
+      own.push(...got);
+      onProgress?.(Atomics.load(work.progress, 1), basis.dim);
+    }
+    helped = await Promise.all(helpers);
+  } finally {
+    releaseSolveWorkers(workers);
   }
-  const pieces = [...own, ...(await Promise.all(helpers)).flat()].sort((a, b) => a.r0 - b.r0);
+  const pieces = [...own, ...helped.flat()].sort((a, b) => a.r0 - b.r0);
   onProgress?.(basis.dim, basis.dim);
   return storedFromPieces(basis.dim, plan.complex, pieces, true);
 }

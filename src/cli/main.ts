@@ -2,7 +2,6 @@ import { Command, CommanderError } from 'commander';
 import { BitspanError, exitStatusFor } from '../errors.js';
 import { ERROR_FORMAT_ENV } from '../batch/runJob.js';
 import type { CliIo } from './io.js';
-import { closeThreadPools } from '../parallel/threadPool.js';
 import { closeMatvecWorkers } from '../parallel/matvecTeam.js';
 
 /** Commands in the order `--help` lists them, by name, each defined by its own module. */
@@ -53,7 +52,6 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     return reportError(e, io);
   } finally {
     closeMatvecWorkers();
-    await closeThreadPools();
   }
 }
 

@@ -1,10 +1,10 @@
-import { MessageChannel, Worker, type MessagePort } from 'node:worker_threads';
+import { MessageChannel, type MessagePort, type Worker } from 'node:worker_threads';
 import type { Basis } from '../bits/basis.js';
 import { applyUpperRows } from '../build/projectedHamiltonian.js';
 import type { RowScanPlan } from '../build/rowScan.js';
 import { applyStoredRows, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import type { LinearOperator } from '../solvers/lanczos.js';
-import { workerScript } from '../util/packageRoot.js';
+import { closeSolveWorkers, releaseSolveWorkers, startSolveWorkers, takeSolveWorkers, type SolveWorkerMessage } from './solveWorkers.js';
 
 /**
  * What every team member needs, all on SharedArrayBuffers: the operator (a stored matrix, or the
@@ -48,12 +48,6 @@ const sharedVector = (len: number): Float64Array => new Float64Array(new SharedA
 /** A spec posted to a member worker: the team's shared arrays, the member's index and the port new team vectors arrive on. */
 export type MemberSpec = TeamSpec & { member: number; port: MessagePort };
 
-/**
- * Member workers not in a team: started ahead by `startMatvecWorkers`, or handed back by a closed
- * team. Each waits for a `MemberSpec` message; unref'd so an idle one never keeps a process alive.
- */
-const idle: Worker[] = [];
-
 /** How many threads (this one included) a team on `dim` rows uses: below ~2000 rows per thread a product is too short to share. */
 export function teamMembers(dim: number, threads: number): number {
   return Math.max(1, Math.min(threads, Math.ceil(dim / 2000)));
@@ -61,19 +55,16 @@ export function teamMembers(dim: number, threads: number): number {
 
 /**
  * Start the member workers a team on `dim` rows will need, now: a worker's start-up (its V8
- * isolate and modules) then overlaps the build instead of delaying the first product.
+ * isolate and modules) then overlaps the build (which runs on the same workers) instead of
+ * delaying it or the first product.
  */
 export function startMatvecWorkers(dim: number, threads: number): void {
-  for (let n = teamMembers(dim, threads) - 1 - idle.length; n > 0; n--) {
-    const w = new Worker(workerScript('matvecTeam'));
-    w.unref();
-    idle.push(w);
-  }
+  startSolveWorkers(teamMembers(dim, threads) - 1);
 }
 
-/** Stop the idle member workers (a command calls this once when it ends); their teardown is not waited for. */
+/** Stop the idle workers (a command calls this once when it ends); their teardown is not waited for. */
 export function closeMatvecWorkers(): void {
-  for (const w of idle.splice(0)) void w.terminate();
+  closeSolveWorkers();
 }
 
 /**
@@ -86,7 +77,7 @@ export class MatvecTeam implements LinearOperator {
   readonly dim: number;
   readonly complex: boolean;
   private readonly spec: TeamSpec;
-  private readonly workers: Worker[] = [];
+  private readonly workers: Worker[];
   private readonly ctrl: Int32Array;
   private readonly ports: MessagePort[] = [];
   private handedOut = 0;
@@ -102,14 +93,12 @@ export class MatvecTeam implements LinearOperator {
     this.ctrl = new Int32Array(control);
     this.dim = spec.dim;
     this.complex = spec.complex;
-    startMatvecWorkers(spec.dim, threads);
-    for (let m = 1; m < members; m++) {
+    this.workers = takeSolveWorkers(members - 1);
+    this.workers.forEach((w, i) => {
       const { port1, port2 } = new MessageChannel();
       this.ports.push(port1);
-      const w = idle.pop()!;
-      w.postMessage({ ...this.spec, member: m, port: port2 } satisfies MemberSpec, [port2]);
-      this.workers.push(w);
-    }
+      w.postMessage({ team: { ...this.spec, member: i + 1, port: port2 } } satisfies SolveWorkerMessage, [port2]);
+    });
   }
 
   /** A new shared vector, announced to every member; returns its team index. */
@@ -171,7 +160,7 @@ export class MatvecTeam implements LinearOperator {
     Atomics.store(this.ctrl, 0, -1);
     Atomics.notify(this.ctrl, 0);
     for (const p of this.ports.splice(0)) p.close();
-    idle.push(...this.workers.splice(0));
+    releaseSolveWorkers(this.workers.splice(0));
   }
 }
 

@@ -2,7 +2,7 @@ import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import { makeBasis, type Basis } from '../bits/basis.js';
 import type { StoredHamiltonian } from '../build/storedHamiltonian.js';
-import { defaultThreads } from '../parallel/threadPool.js';
+import { defaultThreads } from '../parallel/threads.js';
 import { sectorFlipTest } from '../build/projectedHamiltonian.js';
 import type { Qubit0 } from '../io/bitstringParser.js';
 import { readHamiltonian } from '../io/readHamiltonian.js';

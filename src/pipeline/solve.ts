@@ -7,7 +7,7 @@ import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../bu
 import { rowScanPlan } from '../build/rowScan.js';
 import { applyStoredRows, permuteVector, reorderForLocality, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
-import { defaultThreads } from '../parallel/threadPool.js';
+import { defaultThreads } from '../parallel/threads.js';
 import { makeBasis } from '../bits/basis.js';
 import { csrApplyRows, type SparseMatrix } from '../build/sparseMatrix.js';
 import type { Qubit0 } from '../io/bitstringParser.js';

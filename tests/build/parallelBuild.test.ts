@@ -6,10 +6,10 @@ import { rowScanPlan } from '../../src/build/rowScan.js';
 import { groupByFlipMask, PauliSumBuilder } from '../../src/operators/pauliSum.js';
 import { compileSector } from '../../src/sectors/sector.js';
 import { projectAndSolve, projectAndSolveSync } from '../../src/pipeline/solve.js';
-import { closeThreadPools } from '../../src/parallel/threadPool.js';
+import { closeSolveWorkers } from '../../src/parallel/solveWorkers.js';
 import { seededUniform } from '../../src/util/random.js';
 
-afterAll(closeThreadPools);
+afterAll(closeSolveWorkers);
 
 /** A 40-qubit random XXZ-plus-field model and ~30k sampled weight-20 configurations (seeded). */
 function problem(complex: boolean, dim = 30000) {
