@@ -6,7 +6,7 @@ import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
 
 /** Rows below which one thread is faster than shipping work to the pool. */
-const MIN_ROWS_PARALLEL = 20000;
+export const MIN_ROWS_PARALLEL = 20000;
 
 /**
  * Work shared by the threads of one build: chunk k covers rows [k·step, (k+1)·step); `progress`
@@ -63,7 +63,8 @@ export async function buildProjectedHamiltonianParallel(
     basis: view,
     plan,
     upperPerRow: opts.upperPerRow ?? upperPerRowEstimate(basis, plan),
-    step: Math.ceil(basis.dim / Math.min(64, threads * 8)),
+    // Many chunks per thread, so the last ones even out a late-starting worker.
+    step: Math.ceil(basis.dim / Math.min(256, threads * 32)),
     progress: new Int32Array(new SharedArrayBuffer(8)),
   };
   const workers = takeSolveWorkers(threads - 1);

@@ -1,7 +1,7 @@
 import { BitspanError } from '../errors.js';
 import { basisIndexOf, type Basis } from '../bits/basis.js';
 import { formatBitstring } from '../bits/packed.js';
-import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
+import { buildProjectedHamiltonianParallel, MIN_ROWS_PARALLEL } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { rowScanPlan } from '../build/rowScan.js';
@@ -457,10 +457,15 @@ async function readAndSelect(
   const samples = await readRunSamples(opts);
   clock.lap('readSamples');
   checkRegister(hamiltonian, hamiltonianFile, samples.qubits, opts.samples[0]!);
+  // Start the build's workers now when the subspace may be large enough to use them: their start-up
+  // then overlaps the selection instead of the build.
+  const threads = settings.threads ?? defaultThreads();
+  const distinct = samples.groups.reduce((n, g) => n + g.table.size, 0);
+  if (threads > 1 && Math.min(distinct, opts.maxDim ?? Infinity) >= MIN_ROWS_PARALLEL) startMatvecWorkers(distinct, threads);
   const analysis = opts.analysis ? await resolveAnalysis(opts.analysis, hamiltonian, samples.qubits, sector, settings, timings) : undefined;
   const start = opts.startState ? { file: opts.startState, state: await readStartState(opts.startState, samples.qubits, opts.qubit0) } : undefined;
   const t = performance.now();
-  const { basis: sampled, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: (settings.threads ?? defaultThreads()) > 1 });
+  const { basis: sampled, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: threads > 1 });
   timings.filter = (performance.now() - t) / 1000;
   return { sampled, report, samples: analysis ? samples : undefined, analysis, start };
 }
