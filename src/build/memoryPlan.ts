@@ -1,7 +1,7 @@
 import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
-import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
+import { FILTER_ORDER_MIN_BYTES, upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 
 /** How H_S will be applied and what that costs, decided before anything large is allocated. */
 export interface MemoryPlan {
@@ -63,7 +63,8 @@ export function planMemory(basis: Basis, scan: RowScanPlan, opts: { budgetBytes?
   const vectorBytes = dim * 8 * c;
   const threads = Math.max(1, opts.threads ?? 1);
   const solverBytes = solverVectors(dim, opts.eigs ?? 1) * vectorBytes;
-  const freeBytes = solverBytes + (threads + 1) * vectorBytes;
+  // Matrix-free: the Lanczos vectors, one output per thread, and the scan order of a large filter (4 bytes a row).
+  const freeBytes = solverBytes + (threads + 1) * vectorBytes + (basis.filter.byteLength >= FILTER_ORDER_MIN_BYTES ? 4 * dim : 0);
   const storedTotal = basisBytes + matrixBytes + solverBytes + 2 * vectorBytes;
   if (!opts.matrixFree && storedTotal <= budget) {
     return { storage: 'stored', budgetBytes: budget, nonzerosEstimate: nnz, bytes: { basis: basisBytes, matrix: matrixBytes, solver: solverBytes, total: storedTotal }, reason: 'fits the memory budget' };

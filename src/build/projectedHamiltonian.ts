@@ -139,17 +139,18 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
  * Matrix-free y += H_S x over rows r0..r1: the same entries as the stored build, applied as they
  * are found (each pair once, mirrored), so memory stays at the basis and a few vectors.
  */
-export function applyUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: number, x: Float64Array, y: Float64Array): void {
+export function applyUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: number, x: Float64Array, y: Float64Array, rows?: Int32Array): void {
   const complex = plan.complex;
   const s = rowScratch(plan);
   const tables = scanTables(plan);
   for (let b0 = r0; b0 < r1; b0 += s.blockRows) {
     const b1 = Math.min(r1, b0 + s.blockRows);
-    scanRows(plan, basis, tables, b0, b1, s);
+    scanRows(plan, basis, tables, b0, b1, s, rows);
     let e = 0;
-    for (let r = b0; r < b1; r++) {
-      const end = s.rowEnd[r - b0]!;
-      const dr = s.diag[2 * (r - b0)]!;
+    for (let i = b0; i < b1; i++) {
+      const r = rows ? rows[i]! : i;
+      const end = s.rowEnd[i - b0]!;
+      const dr = s.diag[2 * (i - b0)]!;
       if (!complex) {
         const xr = x[r]!;
         let acc = dr * xr;

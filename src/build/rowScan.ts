@@ -300,7 +300,7 @@ export function rowScratch(plan: RowScanPlan): RowScratch {
  * first: the ordering bit, then the sector, then the Bloom filter; the hash table is probed only for
  * likely hits, and for a whole block at once, so the cache misses of different lookups overlap.
  */
-export function scanRows(plan: RowScanPlan, basis: Basis, tables: Uint32Array, r0: number, r1: number, s: RowScratch): number {
+export function scanRows(plan: RowScanPlan, basis: Basis, tables: Uint32Array, r0: number, r1: number, s: RowScratch, rows?: Int32Array): number {
   const nWords = plan.nWords;
   const states = basis.states;
   const nOff = plan.offGroup.length;
@@ -311,7 +311,7 @@ export function scanRows(plan: RowScanPlan, basis: Basis, tables: Uint32Array, r
   const { cand, survRow, survGroup } = s;
   let nSurv = 0;
   for (let r = r0; r < r1; r++) {
-    const aOff = r * nWords;
+    const aOff = (rows ? rows[r]! : r) * nWords;
     diagonalOf(plan, states, aOff, s.diag, 2 * (r - r0));
     if (nOff === 0) continue;
     // Candidates: pooled two-qubit flips bit-parallel, the others one by one.
@@ -346,7 +346,7 @@ export function scanRows(plan: RowScanPlan, basis: Basis, tables: Uint32Array, r
       nSurv += (v >>> (b & 31)) & (v >>> ((b >>> 5) & 31)) & (v >>> ((b >>> 10) & 31)) & 1;
     }
   }
-  lookUpSurvivors(plan, basis, r0, nSurv, s);
+  lookUpSurvivors(plan, basis, r0, nSurv, s, rows);
   // Elements, in row order.
   const { survSlot, survConfig, rowEnd, cols, values } = s;
   let hits = 0;
@@ -392,14 +392,15 @@ function diagonalOf(plan: RowScanPlan, states: Uint32Array, aOff: number, out: F
  * sweeps: flip and hash all and load their first slots, then compare the configurations those slots
  * point to, then finish the few probes that must walk on. Each sweep's loads are independent.
  */
-function lookUpSurvivors(plan: RowScanPlan, basis: Basis, r0: number, nSurv: number, s: RowScratch): void {
+function lookUpSurvivors(plan: RowScanPlan, basis: Basis, r0: number, nSurv: number, s: RowScratch, rows: Int32Array | undefined): void {
   const nWords = plan.nWords;
   const { states, slots } = basis;
   const { survRow, survGroup, survConfig, survHash, survSlot } = s;
   const { flipStart, flipWord, flipMask } = plan;
   const mask = slots.length - 1;
   for (let i = 0; i < nSurv; i++) {
-    const aOff = (r0 + survRow[i]!) * nWords;
+    const row = r0 + survRow[i]!;
+    const aOff = (rows ? rows[row]! : row) * nWords;
     const bOff = i * nWords;
     for (let k = 0; k < nWords; k++) survConfig[bOff + k] = states[aOff + k]!;
     const g = survGroup[i]!;
@@ -469,6 +470,35 @@ function elementOf(plan: RowScanPlan, group: number, b: Uint32Array, bOff: numbe
 /** The shared linear-hash tables for the plan's register width. */
 export function scanTables(plan: RowScanPlan): Uint32Array {
   return linearHashTables(plan.nWords);
+}
+
+/** Filter size (bytes) from which `filterOrder` pays: below it the filter stays in a core's cache anyway. */
+export const FILTER_ORDER_MIN_BYTES = 4 << 20;
+
+/**
+ * The rows in order of the filter word their configuration hashes to, by counting sort on the top 16
+ * bits of that index. The filter word of a ⊕ flip is h(a) ⊕ h(flip): consecutive rows in this order
+ * send each flip's probes to neighbouring words, so a large filter is read almost in sequence instead
+ * of at random (a matrix-free product at D = 10^7: 25 s → 16 s on one thread).
+ */
+export function filterOrder(basis: Basis): Int32Array {
+  const { dim, nWords, states, filter } = basis;
+  const tables = linearHashTables(nWords);
+  const wordBits = 31 - Math.clz32(filter.length);
+  const shift = Math.max(0, wordBits - 16);
+  const keys = new Uint16Array(dim);
+  const counts = new Int32Array(65537);
+  const h = new Uint32Array(2);
+  for (let r = 0; r < dim; r++) {
+    linearHash(tables, states, r * nWords, nWords, h);
+    const k = ((h[0]! & (filter.length - 1)) >>> shift) & 0xffff;
+    keys[r] = k;
+    counts[k + 1]!++;
+  }
+  for (let k = 0; k < 65536; k++) counts[k + 1]! += counts[k]!;
+  const rows = new Int32Array(basis.states.buffer instanceof SharedArrayBuffer ? new SharedArrayBuffer(Math.max(4, 4 * dim)) : new ArrayBuffer(4 * dim));
+  for (let r = 0; r < dim; r++) rows[counts[keys[r]!]!++] = r;
+  return rows;
 }
 
 /** Mean number of upper-triangle entries per row, from `sample` rows spread over the basis. */

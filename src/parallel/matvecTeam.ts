@@ -19,6 +19,8 @@ export interface TeamSpec {
   matrix?: StoredHamiltonian;
   basis?: Basis;
   plan?: RowScanPlan;
+  /** Matrix-free: the order rows are scanned in (see `filterOrder`); members split its positions. */
+  rows?: Int32Array;
   /** Grows as vectors are made; members learn of new ones through their port before each product. */
   vectors: Float64Array[];
   ys: Float64Array[];
@@ -39,7 +41,7 @@ export function applyTeamRows(spec: TeamSpec, m: number, xi: number, yi: number)
   } else {
     const y = spec.ys[m]!;
     y.fill(0);
-    applyUpperRows(spec.basis!, spec.plan!, r0, r1, spec.vectors[xi]!, y);
+    applyUpperRows(spec.basis!, spec.plan!, r0, r1, spec.vectors[xi]!, y, spec.rows);
   }
 }
 

@@ -4,7 +4,7 @@ import { formatBitstring } from '../bits/packed.js';
 import { buildProjectedHamiltonianParallel, MIN_ROWS_PARALLEL } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
-import { rowScanPlan } from '../build/rowScan.js';
+import { filterOrder, FILTER_ORDER_MIN_BYTES, rowScanPlan } from '../build/rowScan.js';
 import { applyStoredRows, permuteVector, reorderForLocality, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threads.js';
@@ -348,8 +348,9 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
     op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: m.complex, dim: m.dim, matrix: m }, threads)) : { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
   } else {
     const view: Basis = { ...basis, counts: new Float64Array(0) };
-    const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan };
-    op = threads > 1 && shared ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y)) };
+    const rows = basis.filter.byteLength >= FILTER_ORDER_MIN_BYTES ? filterOrder(basis) : undefined;
+    const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan, rows };
+    op = threads > 1 && shared ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y, rows)) };
   }
   // The build's pieces are garbage now: give them back before Lanczos allocates its vectors.
   if (basis.dim >= COLLECT_MIN_DIM) collectGarbage();
