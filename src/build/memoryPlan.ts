@@ -11,7 +11,15 @@ export interface MemoryPlan {
   nonzerosEstimate: number;
   bytes: { basis: number; matrix: number; solver: number; total: number };
   reason: string;
+  /**
+   * Matrix-free: Lanczos vectors the budget leaves room to keep, so a run that converges within
+   * them skips the two-pass replay (each product is a full row scan there). Counted in `bytes`.
+   */
+  keepVectors?: number;
 }
+
+/** Most Lanczos vectors a matrix-free run keeps (a run rarely needs more steps). */
+const MAX_KEEP_VECTORS = 300;
 
 /** Default memory budget: half of the machine's RAM. */
 export function defaultMemoryBudget(): number {
@@ -77,11 +85,14 @@ export function planMemory(basis: Basis, scan: RowScanPlan, opts: { budgetBytes?
       'lower --max-dim, ask for fewer --eigs, or raise --memory if the machine has the RAM',
     );
   }
+  const keepVectors = Math.min(MAX_KEEP_VECTORS, Math.floor((budget - freeTotal) / vectorBytes));
+  const keptBytes = keepVectors * vectorBytes;
   return {
     storage: 'matrix-free',
     budgetBytes: budget,
     nonzerosEstimate: nnz,
-    bytes: { basis: basisBytes, matrix: 0, solver: freeBytes, total: freeTotal },
+    keepVectors,
+    bytes: { basis: basisBytes, matrix: 0, solver: freeBytes + keptBytes, total: freeTotal + keptBytes },
     reason: opts.matrixFree ? 'requested with --matrix-free' : `a stored matrix (~${formatBytes(matrixBytes)}) would exceed the memory budget`,
   };
 }

@@ -117,7 +117,8 @@ export interface SolveReport extends Partial<AnalysisReport> {
   complex: boolean;
   /** `stored` CSR or `matrix-free` products. */
   storage: 'stored' | 'matrix-free';
-  memory: { budgetBytes: number; estimatedBytes: number; reason: string };
+  /** The memory plan; keptVectors: Lanczos vectors a matrix-free run could keep to skip the two-pass replay. */
+  memory: { budgetBytes: number; estimatedBytes: number; reason: string; keptVectors?: number };
   energies: number[];
   residuals: number[];
   converged: boolean;
@@ -224,7 +225,7 @@ export function projectionReport(projection: Projection, tol: number, seed: numb
     nonzeros: projection.nonzeros,
     complex: projection.complex,
     storage: plan.storage,
-    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason },
+    memory: { budgetBytes: plan.budgetBytes, estimatedBytes: plan.bytes.total, reason: plan.reason, ...(plan.keepVectors !== undefined ? { keptVectors: plan.keepVectors } : {}) },
     ...eigenReport(eigen, tol, seed),
   };
 }
@@ -368,6 +369,7 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
       tol: settings.tol ?? LANCZOS_DEFAULTS.tol,
       seed: settings.seed ?? LANCZOS_DEFAULTS.seed,
       start,
+      keepVectors: plan.keepVectors,
       onProgress: settings.onSolveProgress,
     });
   } finally {

@@ -38,6 +38,8 @@ export interface LanczosOptions {
   strategy: 'auto' | 'thick-restart' | 'two-pass';
   /** Optional start vector (length dim, or 2·dim complex); random otherwise. */
   start?: Float64Array;
+  /** Two-pass only: Lanczos vectors it may keep to skip its second pass (see `TwoPassOptions`). */
+  keepVectors?: number;
   /** Called after each restart with the current residual of the lowest wanted pair. */
   onProgress?: (info: { matvecs: number; restarts: number; residual: number; energy: number }) => void;
 }
@@ -95,6 +97,7 @@ export function lanczos(op: LinearOperator, options: Partial<LanczosOptions> = {
       seed: opts.seed,
       maxIterations: Math.min(opts.maxMatvecs, 3000),
       start: opts.start,
+      keepVectors: opts.keepVectors,
       onProgress: opts.onProgress ? (p) => opts.onProgress!({ ...p, restarts: 0 }) : undefined,
     });
     if (r.converged) return r;

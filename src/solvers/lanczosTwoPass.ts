@@ -9,6 +9,12 @@ export interface TwoPassOptions {
   seed: number;
   maxIterations: number;
   start?: Float64Array;
+  /**
+   * Lanczos vectors pass 1 may keep (default 0): when the run converges within them the Ritz
+   * vector is formed from the kept ones and pass 2 is skipped. For expensive products (matrix-free)
+   * with memory to spare, this halves the products.
+   */
+  keepVectors?: number;
   onProgress?: (info: { matvecs: number; residual: number; energy: number }) => void;
 }
 
@@ -44,9 +50,12 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
   let vPrev = vector();
   let v = vector();
   let w = vector();
-  // Pass 1: coefficients only.
+  // Pass 1: coefficients only (and copies of the first keepVectors Lanczos vectors).
+  const kept: Float64Array[] = [];
+  const keep = opts.keepVectors ?? 0;
   writeStart(v);
   for (let j = 0; j < opts.maxIterations && j < op.dim; j++) {
+    if (kept.length < keep) kept.push(Float64Array.from(v));
     op.apply(v, w);
     matvecs++;
     const { a, b } = lanczosStep(v, vPrev, w, j > 0 ? beta[j - 1]! : 0);
@@ -74,22 +83,29 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
   if (!y || y.length !== steps) {
     y = tridiagonalLowest(alpha, beta).vector;
   }
-  // Pass 2: replay the recurrence with the same coefficients and accumulate x = Σ y_j v_j.
   const x = vector();
-  vPrev.fill(0);
-  writeStart(v);
-  for (let j = 0; j < steps; j++) {
-    if (j + 1 === steps) {
-      axpy(y[j]!, 0, v, x, false);
-      break;
+  if (kept.length >= steps) {
+    // Every vector of the run was kept: x = Σ y_j v_j directly, no second pass.
+    for (let j = 0; j < steps; j++) axpy(y[j]!, 0, kept[j]!, x, false);
+    kept.length = 0;
+  } else {
+    kept.length = 0;
+    // Pass 2: replay the recurrence with the same coefficients and accumulate x = Σ y_j v_j.
+    vPrev.fill(0);
+    writeStart(v);
+    for (let j = 0; j < steps; j++) {
+      if (j + 1 === steps) {
+        axpy(y[j]!, 0, v, x, false);
+        break;
+      }
+      op.apply(v, w);
+      matvecs++;
+      replayStep(v, vPrev, w, x, alpha[j]!, j > 0 ? beta[j - 1]! : 0, beta[j]!, y[j]!);
+      const t = vPrev;
+      vPrev = v;
+      v = w;
+      w = t;
     }
-    op.apply(v, w);
-    matvecs++;
-    replayStep(v, vPrev, w, x, alpha[j]!, j > 0 ? beta[j - 1]! : 0, beta[j]!, y[j]!);
-    const t = vPrev;
-    vPrev = v;
-    v = w;
-    w = t;
   }
   scale(x, 1 / norm(x));
   const hx = vPrev;

@@ -82,4 +82,27 @@ describe('lanczos', () => {
     expect(short.converged).toBe(false);
     expect(short.matvecs).toBeLessThan(40);
   });
+
+  it('two-pass Lanczos that keeps its vectors skips the replay and gives the same pair as ml-matrix and as the replay', () => {
+    // Reference: ml-matrix EigenvalueDecomposition of the same matrix.
+    const d = Array.from({ length: 200 }, (_, i) => -3 + i * 0.05 + Math.sin(i) * 0.01);
+    const a = withSpectrum(d, 21);
+    const ref = new EigenvalueDecomposition(new Matrix(Array.from({ length: 200 }, (_, i) => Array.from(a.subarray(i * 200, i * 200 + 200)))), { assumeSymmetric: true });
+    const lowest = Math.min(...ref.realEigenvalues);
+    const replay = lanczos(denseOperator(a, 200), { eigs: 1, seed: 3, strategy: 'two-pass', tol: 1e-9 });
+    const kept = lanczos(denseOperator(a, 200), { eigs: 1, seed: 3, strategy: 'two-pass', tol: 1e-9, keepVectors: 200 });
+    closeTo(kept.values[0]!, lowest, 1e-9, 'kept vectors');
+    closeTo(replay.values[0]!, lowest, 1e-9, 'replay');
+    expect(kept.residuals[0]!).toBeLessThan(1e-9 * 10);
+    // Same recurrence, so the same Ritz vector; the replay's products are saved (all but the residual check).
+    expect(kept.iterations).toBe(replay.iterations);
+    expect(kept.matvecs).toBe(replay.iterations + 1);
+    expect(replay.matvecs).toBe(2 * replay.iterations);
+    let diff = 0;
+    for (let i = 0; i < 200; i++) diff = Math.max(diff, Math.abs(kept.vectors[0]![i]! - replay.vectors[0]![i]!));
+    expect(diff).toBeLessThan(1e-12);
+    // Too few kept vectors: the replay runs as before.
+    const few = lanczos(denseOperator(a, 200), { eigs: 1, seed: 3, strategy: 'two-pass', tol: 1e-9, keepVectors: 3 });
+    expect(few.matvecs).toBe(replay.matvecs);
+  });
 });
