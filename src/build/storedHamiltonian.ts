@@ -43,11 +43,20 @@ export function storedNonzeros(m: StoredHamiltonian): number {
   return m.rowPtr[m.dim]! + diagonals;
 }
 
+/** A renumbering of the rows: storage row i holds basis row take[i], and basis row r sits at posOf[r]. */
+export interface StorageOrder {
+  take: Int32Array;
+  posOf: Int32Array;
+}
+
 /**
  * Join upper-triangle pieces (in row order) into a stored Hamiltonian: each row gets its mirrored
  * lower entries (ascending columns) then its upper ones. `shared`: arrays on SharedArrayBuffers.
+ * With `order` (see `localityOrder`) the rows are stored in that order and the result records it:
+ * the same arrays `reorderForLocality` makes from the basis-order matrix, which never exists.
  */
-export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false): StoredHamiltonian {
+export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false, order?: StorageOrder): StoredHamiltonian {
+  if (order) return storedInOrder(dim, complex, pieces, order, shared);
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
   const w = complex ? 2 : 1;
   const diag = new Float64Array(alloc(w * dim * 8));
@@ -104,6 +113,98 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
     }
   }
   return coding ? { dim, complex, diag, rowPtr, cols, codes, table: coding.table } : { dim, complex, diag, rowPtr, cols, values };
+}
+
+/**
+ * Storage row i = basis row take[i]. Every upper entry (r, c) lands in storage row posOf[r] and
+ * its mirror in posOf[c]; each row is then sorted by column, as `permuteStored` leaves it.
+ */
+function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], { take, posOf }: StorageOrder, shared: boolean): StoredHamiltonian {
+  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
+  const w = complex ? 2 : 1;
+  const diag = new Float64Array(alloc(w * dim * 8));
+  // Entries of each basis row: its upper ones plus the mirrors of upper entries in its column.
+  const count = new Int32Array(dim);
+  let upper = 0;
+  for (const p of pieces) {
+    for (let r = p.r0; r < p.r1; r++) {
+      const i = r - p.r0;
+      for (let k = 0; k < w; k++) diag[w * posOf[r]! + k] = p.diag[w * i + k]!;
+      count[r]! += p.rowEnd[i]! - (i === 0 ? 0 : p.rowEnd[i - 1]!);
+    }
+    for (let e = 0; e < p.cols.length; e++) count[p.cols[e]!]!++;
+    upper += p.cols.length;
+  }
+  const coding = valueCodes(pieces, complex);
+  const nnz = 2 * upper;
+  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
+  let at = 0;
+  for (let i = 0; i < dim; i++) {
+    rowPtr[i] = at;
+    at += count[take[i]!]!;
+  }
+  rowPtr[dim] = at;
+  // From here `count` holds the entries placed so far in each storage row.
+  count.fill(0);
+  const cols = new Int32Array(alloc(nnz * 4));
+  const bytesPerCode = coding ? (coding.count <= 256 ? 1 : 2) : 0;
+  const codes = coding ? (bytesPerCode === 1 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2))) : undefined;
+  const values = coding ? undefined : new Float64Array(alloc(w * nnz * 8));
+  let codeAt = 0;
+  for (const p of pieces) {
+    let e = 0;
+    for (let r = p.r0; r < p.r1; r++) {
+      const i = posOf[r]!;
+      for (const end = p.rowEnd[r - p.r0]!; e < end; e++) {
+        const j = posOf[p.cols[e]!]!;
+        const pos = rowPtr[i]! + count[i]!++;
+        const lp = rowPtr[j]! + count[j]!++;
+        cols[pos] = j;
+        cols[lp] = i;
+        if (codes) {
+          const code = coding!.codeOf[codeAt++]!;
+          codes[pos] = code;
+          codes[lp] = coding!.conjugate[code]!;
+        } else if (complex) {
+          values![2 * pos] = p.values[2 * e]!;
+          values![2 * pos + 1] = p.values[2 * e + 1]!;
+          values![2 * lp] = p.values[2 * e]!;
+          values![2 * lp + 1] = -p.values[2 * e + 1]!;
+        } else {
+          values![pos] = p.values[e]!;
+          values![lp] = p.values[e]!;
+        }
+      }
+    }
+  }
+  for (let i = 0; i < dim; i++) sortByColumn(cols, codes, values, w, rowPtr[i]!, rowPtr[i + 1]!);
+  const out: StoredHamiltonian = coding ? { dim, complex, diag, rowPtr, cols, codes, table: coding.table } : { dim, complex, diag, rowPtr, cols, values };
+  out.order = take;
+  return out;
+}
+
+// Insertion sort of one stored row by column (rows hold a handful of entries), codes or values alongside.
+function sortByColumn(cols: Int32Array, codes: Uint8Array | Uint16Array | undefined, values: Float64Array | undefined, w: number, start: number, end: number): void {
+  for (let a = start + 1; a < end; a++) {
+    const c = cols[a]!;
+    if (c > cols[a - 1]!) continue;
+    const code = codes ? codes[a]! : 0;
+    const v0 = values ? values[w * a]! : 0;
+    const v1 = values && w === 2 ? values[w * a + 1]! : 0;
+    let j = a - 1;
+    while (j >= start && cols[j]! > c) {
+      cols[j + 1] = cols[j]!;
+      if (codes) codes[j + 1] = codes[j]!;
+      else for (let k = 0; k < w; k++) values![w * (j + 1) + k] = values![w * j + k]!;
+      j--;
+    }
+    cols[j + 1] = c;
+    if (codes) codes[j + 1] = code;
+    else {
+      values![w * (j + 1)] = v0;
+      if (w === 2) values![w * (j + 1) + 1] = v1;
+    }
+  }
 }
 
 /**
@@ -261,6 +362,65 @@ function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array
   } else out.values = values!;
   if (order) out.order = order;
   return out;
+}
+
+/**
+ * The breadth-first order `reorderForLocality` finds, read straight from upper-triangle pieces (in
+ * row order) before any stored matrix exists. A row's neighbours are visited as its stored row
+ * lists them: the mirrored lower ones, then its upper ones. Only the lower ones need a transposed
+ * copy (4 bytes an upper entry, dropped on return); the upper ones are read from the pieces.
+ */
+export function localityOrder(dim: number, pieces: UpperPiece[]): StorageOrder {
+  const pieceOf = new Int32Array(dim);
+  // Lower neighbours per row: counts, then starts, then (after the fill) ends.
+  const lowEnd = new Float64Array(dim);
+  let upper = 0;
+  for (let k = 0; k < pieces.length; k++) {
+    const p = pieces[k]!;
+    pieceOf.fill(k, p.r0, p.r1);
+    for (let e = 0; e < p.cols.length; e++) lowEnd[p.cols[e]!]!++;
+    upper += p.cols.length;
+  }
+  let at = 0;
+  for (let r = 0; r < dim; r++) {
+    const n = lowEnd[r]!;
+    lowEnd[r] = at;
+    at += n;
+  }
+  const lowAdj = new Int32Array(Math.max(1, upper));
+  for (const p of pieces) {
+    let e = 0;
+    for (let r = p.r0; r < p.r1; r++) for (const end = p.rowEnd[r - p.r0]!; e < end; e++) lowAdj[lowEnd[p.cols[e]!]!++] = r;
+  }
+  const take = new Int32Array(dim);
+  const posOf = new Int32Array(dim).fill(-1);
+  let head = 0;
+  let tail = 0;
+  for (let s = 0; s < dim; s++) {
+    if (posOf[s]! >= 0) continue;
+    posOf[s] = tail;
+    take[tail++] = s;
+    while (head < tail) {
+      const r = take[head++]!;
+      for (let e = r === 0 ? 0 : lowEnd[r - 1]!, end = lowEnd[r]!; e < end; e++) {
+        const c = lowAdj[e]!;
+        if (posOf[c]! < 0) {
+          posOf[c] = tail;
+          take[tail++] = c;
+        }
+      }
+      const p = pieces[pieceOf[r]!]!;
+      const i = r - p.r0;
+      for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!, end = p.rowEnd[i]!; e < end; e++) {
+        const c = p.cols[e]!;
+        if (posOf[c]! < 0) {
+          posOf[c] = tail;
+          take[tail++] = c;
+        }
+      }
+    }
+  }
+  return { take, posOf };
 }
 
 /**

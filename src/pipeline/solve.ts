@@ -5,7 +5,7 @@ import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { rowScanPlan } from '../build/rowScan.js';
-import { applyStoredRows, permuteVector, reorderForLocality, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
+import { applyStoredRows, permuteVector, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
@@ -335,8 +335,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   if (plan.storage === 'stored') {
     // The memory plan sampled rows already: nonzeros = 2·upper + dim.
     const upperPerRow = (plan.nonzerosEstimate - basis.dim) / (2 * Math.max(1, basis.dim));
-    matrix = await buildProjectedHamiltonianParallel(basis, scan, threads, { upperPerRow, onProgress: settings.onBuildProgress });
-    if (matrix.dim >= (settings.reorderFromDim ?? REORDER_MIN_DIM)) matrix = reorderForLocality(matrix, shared);
+    const locality = basis.dim >= (settings.reorderFromDim ?? REORDER_MIN_DIM);
+    matrix = await buildProjectedHamiltonianParallel(basis, scan, threads, { upperPerRow, locality, onProgress: settings.onBuildProgress });
     // Lanczos runs in storage order; its start vector goes in and its eigenvectors come out below.
     const m = matrix;
     op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: m.complex, dim: m.dim, matrix: m }, threads)) : { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
