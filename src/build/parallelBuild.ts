@@ -2,7 +2,7 @@ import type { Basis } from '../bits/basis.js';
 import { runInPool, threadPool } from '../parallel/threadPool.js';
 import { buildUpperRows, type UpperPiece } from './projectedHamiltonian.js';
 import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
-import { localityOrder, storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
+import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
 
 /** Rows below which one thread is faster than shipping work to the pool. */
 const MIN_ROWS_PARALLEL = 20000;
@@ -56,7 +56,7 @@ export async function buildProjectedHamiltonianParallel(
   const shared = basis.states.buffer instanceof SharedArrayBuffer && basis.slots.buffer instanceof SharedArrayBuffer;
   // The pieces are dropped when this returns, before the caller allocates its solver vectors.
   const assemble = (pieces: UpperPiece[], sharedArrays: boolean): StoredHamiltonian =>
-    storedFromPieces(basis.dim, plan.complex, pieces, sharedArrays, opts.locality ? localityOrder(basis.dim, pieces) : undefined);
+    storedFromPieces(basis.dim, plan.complex, pieces, sharedArrays, opts.locality ? 'locality' : undefined);
   if (threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared) {
     const piece = buildUpperRows(basis, plan, 0, basis.dim);
     onProgress?.(basis.dim, basis.dim);

@@ -52,10 +52,12 @@ export interface StorageOrder {
 /**
  * Join upper-triangle pieces (in row order) into a stored Hamiltonian: each row gets its mirrored
  * lower entries (ascending columns) then its upper ones. `shared`: arrays on SharedArrayBuffers.
- * With `order` (see `localityOrder`) the rows are stored in that order and the result records it:
- * the same arrays `reorderForLocality` makes from the basis-order matrix, which never exists.
+ * With `order` the rows are stored in that order and the result records it; 'locality' finds
+ * `localityOrder`'s order in the arrays about to be filled, so it costs no memory beyond the
+ * order itself. Either way the result has the arrays `reorderForLocality` would make from the
+ * basis-order matrix, which never exists.
  */
-export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false, order?: StorageOrder): StoredHamiltonian {
+export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false, order?: StorageOrder | 'locality'): StoredHamiltonian {
   if (order) return storedInOrder(dim, complex, pieces, order, shared);
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
   const w = complex ? 2 : 1;
@@ -119,24 +121,34 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
  * Storage row i = basis row take[i]. Every upper entry (r, c) lands in storage row posOf[r] and
  * its mirror in posOf[c]; each row is then sorted by column, as `permuteStored` leaves it.
  */
-function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], { take, posOf }: StorageOrder, shared: boolean): StoredHamiltonian {
+function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], order: StorageOrder | 'locality', shared: boolean): StoredHamiltonian {
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
   const w = complex ? 2 : 1;
-  const diag = new Float64Array(alloc(w * dim * 8));
-  // Entries of each basis row: its upper ones plus the mirrors of upper entries in its column.
-  const count = new Int32Array(dim);
   let upper = 0;
+  for (const p of pieces) upper += p.cols.length;
+  const nnz = 2 * upper;
+  const cols = new Int32Array(alloc(nnz * 4));
+  // Entries of each basis row: the mirrors of upper entries in its column, plus its upper ones.
+  const count = new Uint32Array(dim);
+  let take: Int32Array;
+  let posOf: Int32Array;
+  if (order === 'locality') {
+    // The search's scratch is `count` (lower-list ends) and the first half of `cols`.
+    ({ take, posOf } = breadthFirst(dim, pieces, count, cols.subarray(0, Math.max(1, upper))));
+    for (let r = dim - 1; r > 0; r--) count[r]! -= count[r - 1]!;
+  } else {
+    ({ take, posOf } = order);
+    for (const p of pieces) for (let e = 0; e < p.cols.length; e++) count[p.cols[e]!]!++;
+  }
+  const diag = new Float64Array(alloc(w * dim * 8));
   for (const p of pieces) {
     for (let r = p.r0; r < p.r1; r++) {
       const i = r - p.r0;
       for (let k = 0; k < w; k++) diag[w * posOf[r]! + k] = p.diag[w * i + k]!;
       count[r]! += p.rowEnd[i]! - (i === 0 ? 0 : p.rowEnd[i - 1]!);
     }
-    for (let e = 0; e < p.cols.length; e++) count[p.cols[e]!]!++;
-    upper += p.cols.length;
   }
   const coding = valueCodes(pieces, complex);
-  const nnz = 2 * upper;
   const rowPtr = new Float64Array(alloc((dim + 1) * 8));
   let at = 0;
   for (let i = 0; i < dim; i++) {
@@ -146,7 +158,6 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], { ta
   rowPtr[dim] = at;
   // From here `count` holds the entries placed so far in each storage row.
   count.fill(0);
-  const cols = new Int32Array(alloc(nnz * 4));
   const bytesPerCode = coding ? (coding.count <= 256 ? 1 : 2) : 0;
   const codes = coding ? (bytesPerCode === 1 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2))) : undefined;
   const values = coding ? undefined : new Float64Array(alloc(w * nnz * 8));
@@ -368,26 +379,27 @@ function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array
  * The breadth-first order `reorderForLocality` finds, read straight from upper-triangle pieces (in
  * row order) before any stored matrix exists. A row's neighbours are visited as its stored row
  * lists them: the mirrored lower ones, then its upper ones. Only the lower ones need a transposed
- * copy (4 bytes an upper entry, dropped on return); the upper ones are read from the pieces.
+ * copy (4 bytes an upper entry); the upper ones are read from the pieces.
  */
 export function localityOrder(dim: number, pieces: UpperPiece[]): StorageOrder {
-  const pieceOf = new Int32Array(dim);
-  // Lower neighbours per row: counts, then starts, then (after the fill) ends.
-  const lowEnd = new Float64Array(dim);
   let upper = 0;
-  for (let k = 0; k < pieces.length; k++) {
-    const p = pieces[k]!;
-    pieceOf.fill(k, p.r0, p.r1);
-    for (let e = 0; e < p.cols.length; e++) lowEnd[p.cols[e]!]!++;
-    upper += p.cols.length;
-  }
+  for (const p of pieces) upper += p.cols.length;
+  return breadthFirst(dim, pieces, new Uint32Array(dim), new Int32Array(Math.max(1, upper)));
+}
+
+/**
+ * `localityOrder` in caller-given scratch: `lowEnd` (dim zeros) ends up holding where each row's
+ * list of lower neighbours ends in `lowAdj` (at least one slot per upper entry).
+ */
+function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lowAdj: Int32Array): StorageOrder {
+  // Lower-list lengths, then starts, then (after the fill) ends. 32 bits suffice: they index a typed array.
+  for (const p of pieces) for (let e = 0; e < p.cols.length; e++) lowEnd[p.cols[e]!]!++;
   let at = 0;
   for (let r = 0; r < dim; r++) {
     const n = lowEnd[r]!;
     lowEnd[r] = at;
     at += n;
   }
-  const lowAdj = new Int32Array(Math.max(1, upper));
   for (const p of pieces) {
     let e = 0;
     for (let r = p.r0; r < p.r1; r++) for (const end = p.rowEnd[r - p.r0]!; e < end; e++) lowAdj[lowEnd[p.cols[e]!]!++] = r;
@@ -409,7 +421,15 @@ export function localityOrder(dim: number, pieces: UpperPiece[]): StorageOrder {
           take[tail++] = c;
         }
       }
-      const p = pieces[pieceOf[r]!]!;
+      // The piece holding row r: a binary search over the few pieces' first rows.
+      let lo = 0;
+      for (let hi = pieces.length - 1; lo < hi; ) {
+        const mid = (lo + hi + 1) >> 1;
+        if (pieces[mid]!.r0 <= r) lo = mid;
+        else hi = mid - 1;
+      }
+      while (pieces[lo]!.r1 <= r) lo--; // past empty pieces that start at r
+      const p = pieces[lo]!;
       const i = r - p.r0;
       for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!, end = p.rowEnd[i]!; e < end; e++) {
         const c = p.cols[e]!;
@@ -474,6 +494,36 @@ export function permuteVector(m: StoredHamiltonian, x: Float64Array, out: Float6
       if (toStorage) out[w * i + k] = x[w * b + k]!;
       else out[w * b + k] = x[w * i + k]!;
     }
+  }
+}
+
+/**
+ * x in storage order → basis order in place, following the permutation's cycles (a byte a row to
+ * mark them), so a large eigenvector is not copied.
+ */
+export function toBasisOrderInPlace(m: StoredHamiltonian, x: Float64Array): void {
+  const order = m.order!;
+  const w = m.complex ? 2 : 1;
+  const done = new Uint8Array(m.dim);
+  for (let s = 0; s < m.dim; s++) {
+    if (done[s]) continue;
+    // Carry storage row i's entry to basis row order[i], picking up the entry found there.
+    let re = x[w * s]!;
+    let im = w === 2 ? x[w * s + 1]! : 0;
+    let i = s;
+    do {
+      const t = order[i]!;
+      done[t] = 1;
+      const re2 = x[w * t]!;
+      x[w * t] = re;
+      re = re2;
+      if (w === 2) {
+        const im2 = x[w * t + 1]!;
+        x[w * t + 1] = im;
+        im = im2;
+      }
+      i = t;
+    } while (i !== s);
   }
 }
 

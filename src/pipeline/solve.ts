@@ -5,7 +5,7 @@ import { buildProjectedHamiltonianParallel } from '../build/parallelBuild.js';
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { rowScanPlan } from '../build/rowScan.js';
-import { applyStoredRows, permuteVector, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
+import { applyStoredRows, permuteVector, storedNonzeros, toBasisOrderInPlace, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threadPool.js';
 import { makeBasis } from '../bits/basis.js';
@@ -364,13 +364,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   } finally {
     team?.close();
   }
-  if (reordered) {
-    eigen.vectors = eigen.vectors.map((v) => {
-      const out = new Float64Array(v.length);
-      permuteVector(reordered, v, out, false);
-      return out;
-    });
-  }
+  // In place: a second D-long vector here would add to the peak.
+  if (reordered) for (const v of eigen.vectors) toBasisOrderInPlace(reordered, v);
   const t2 = performance.now();
   return {
     matrix,

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { UpperPiece } from '../../src/build/projectedHamiltonian.js';
 import { toDense } from '../../src/build/sparseMatrix.js';
-import { applyStoredRows, localityOrder, permuteVector, reorderForLocality, storedFromPieces, storedNonzeros, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
+import { applyStoredRows, localityOrder, permuteVector, reorderForLocality, storedFromPieces, storedNonzeros, toBasisOrderInPlace, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
 import { seededUniform } from '../../src/util/random.js';
 
 /**
@@ -146,6 +146,9 @@ describe('reorderForLocality', () => {
           applyStoredRows(r, xs, ys);
           permuteVector(r, ys, y, false);
           for (let i = 0; i < w * dim; i++) expect(Math.abs(y[i]! - y0[i]!)).toBeLessThan(1e-12);
+          // In place, the same move (entry i of storage order is entry order[i] in basis order).
+          toBasisOrderInPlace(r, ys);
+          expect(Array.from(ys)).toEqual(Array.from(y));
         }
       }),
       { numRuns: 100, seed: 21 },
@@ -159,9 +162,12 @@ describe('reorderForLocality', () => {
         const order = localityOrder(dim, pieces);
         const got = storedFromPieces(dim, complex, pieces, false, order);
         const want = reorderForLocality(storedFromPieces(dim, complex, pieces));
-        for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
-          const [g, w] = [got[key], want[key]];
-          expect(g === undefined ? undefined : Buffer.from(g.buffer, g.byteOffset, g.byteLength).toString('hex'), key).toEqual(w === undefined ? undefined : Buffer.from(w.buffer, w.byteOffset, w.byteLength).toString('hex'));
+        // 'locality' finds the order inside the arrays it then fills.
+        for (const m of [got, storedFromPieces(dim, complex, pieces, false, 'locality')]) {
+          for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
+            const [g, w] = [m[key], want[key]];
+            expect(g === undefined ? undefined : Buffer.from(g.buffer, g.byteOffset, g.byteLength).toString('hex'), key).toEqual(w === undefined ? undefined : Buffer.from(w.buffer, w.byteOffset, w.byteLength).toString('hex'));
+          }
         }
         // Reference order written out from the definition: breadth-first search on the dense
         // matrix's graph, neighbours taken in ascending index, each unvisited row starting a tree.
