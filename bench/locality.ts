@@ -1,8 +1,10 @@
 /**
- * Dev tool: `node dist/bench/locality.js HAMILTONIAN SAMPLES WEIGHT [--reps 3]` times, in one process,
+ * Dev tool: `node dist/bench/locality.js HAMILTONIAN SAMPLES WEIGHT [--reps 3] [--threads 2]` times, in one process,
  * assembling the stored matrix from the same upper-triangle pieces in basis order and renumbered for
  * locality (`storedFromPieces(..., 'locality')`, with the older `reorderForLocality` of a basis-order
- * matrix beside it), then one product on each (one thread and a two-thread team); prints JSON.
+ * matrix beside it), then one product on each (one thread and a two-thread team), then whole
+ * `projectAndSolve` runs on `threads` threads with renumbering off and on (seeds 1..reps: the random start differs in
+ * each order, so compare sums over seeds); prints JSON.
  */
 import { readHamiltonian } from '../src/io/readHamiltonian.js';
 import { readSamples } from '../src/io/readSamples.js';
@@ -14,10 +16,14 @@ import { sectorFlipTest } from '../src/build/projectedHamiltonian.js';
 import { rowScanPlan, upperPerRowEstimate } from '../src/build/rowScan.js';
 import { applyStoredRows, localityOrder, reorderForLocality, storedFromPieces, type StoredHamiltonian } from '../src/build/storedHamiltonian.js';
 import { MatvecTeam, closeMatvecWorkers } from '../src/parallel/matvecTeam.js';
+import { closeThreadPools } from '../src/parallel/threadPool.js';
+import { projectAndSolve } from '../src/pipeline/solve.js';
 
 const [hamiltonian, samples, weightArg, ...rest] = process.argv.slice(2);
-if (!hamiltonian || !samples || !weightArg) throw new Error('usage: locality.js HAMILTONIAN SAMPLES WEIGHT [--reps N]');
-const reps = rest[0] === '--reps' ? Number(rest[1]) : 3;
+if (!hamiltonian || !samples || !weightArg) throw new Error('usage: locality.js HAMILTONIAN SAMPLES WEIGHT [--reps N] [--threads T]');
+const flag = (name: string, fallback: number): number => (rest.includes(name) ? Number(rest[rest.indexOf(name) + 1]) : fallback);
+const reps = flag('--reps', 3);
+const threads = flag('--threads', 2);
 const sector = { weights: [{ lo: 0, hi: -1, weight: Number(weightArg) }] };
 const { basis } = selectSubspace(await readSamples([samples]), { sector, shared: true });
 const h = await readHamiltonian(hamiltonian);
@@ -63,6 +69,30 @@ for (let rep = 0; rep < reps; rep++) {
     team.close();
   }
 }
-closeMatvecWorkers();
 const nnz = plain!.rowPtr[dim]!;
-process.stdout.write(JSON.stringify({ dim, offDiagonal: nnz, ...best, productRatio1: best.product1InOrder! / best.product1BasisOrder!, productRatio2: best.product2InOrder! / best.product2BasisOrder! }) + '\n');
+plain = renumbered = undefined;
+const solves: Record<string, number> = {};
+const add = (key: string, v: number): void => void (solves[key] = (solves[key] ?? 0) + v);
+for (let seed = 1; seed <= reps; seed++) {
+  for (const [name, reorderFromDim] of [['Off', Infinity], ['On', 0]] as const) {
+    const p = await projectAndSolve(h, basis, sector, { threads, seed, reorderFromDim });
+    add(`build${name}`, p.timings.build);
+    add(`solve${name}`, p.timings.solve);
+    add(`matvecs${name}`, p.eigen.matvecs);
+  }
+}
+closeMatvecWorkers();
+await closeThreadPools();
+process.stdout.write(
+  JSON.stringify({
+    dim,
+    threads,
+    offDiagonal: nnz,
+    ...best,
+    productRatio1: best.product1InOrder! / best.product1BasisOrder!,
+    productRatio2: best.product2InOrder! / best.product2BasisOrder!,
+    ...solves,
+    solvePerMatvecRatio: solves.solveOn! / solves.matvecsOn! / (solves.solveOff! / solves.matvecsOff!),
+    buildPlusSolveRatio: (solves.buildOn! + solves.solveOn!) / (solves.buildOff! + solves.solveOff!),
+  }) + '\n',
+);

@@ -149,15 +149,13 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
     }
   }
   const coding = valueCodes(pieces, complex);
+  // rowPtr[i + 1] starts as row i's start and moves along as the row fills: it then ends the row.
   const rowPtr = new Float64Array(alloc((dim + 1) * 8));
   let at = 0;
   for (let i = 0; i < dim; i++) {
-    rowPtr[i] = at;
+    rowPtr[i + 1] = at;
     at += count[take[i]!]!;
   }
-  rowPtr[dim] = at;
-  // From here `count` holds the entries placed so far in each storage row.
-  count.fill(0);
   const bytesPerCode = coding ? (coding.count <= 256 ? 1 : 2) : 0;
   const codes = coding ? (bytesPerCode === 1 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2))) : undefined;
   const values = coding ? undefined : new Float64Array(alloc(w * nnz * 8));
@@ -168,8 +166,8 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
       const i = posOf[r]!;
       for (const end = p.rowEnd[r - p.r0]!; e < end; e++) {
         const j = posOf[p.cols[e]!]!;
-        const pos = rowPtr[i]! + count[i]!++;
-        const lp = rowPtr[j]! + count[j]!++;
+        const pos = rowPtr[i + 1]!++;
+        const lp = rowPtr[j + 1]!++;
         cols[pos] = j;
         cols[lp] = i;
         if (codes) {
@@ -447,7 +445,8 @@ function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lo
  * Renumber the rows in breadth-first order of the matrix graph (Cuthill–McKee without the degree
  * sort): a row's neighbours then sit close together, so a product's gathers from x mostly hit
  * cache lines already loaded. On a sampled Heisenberg subspace at D = 10^6 this halves the product
- * time. The result records the order; `storedOperator` and `toSparseMatrix` undo it.
+ * time. The result records the order; `storedOperator` and `toSparseMatrix` undo it. The solver
+ * gets the same matrix without this second copy: `storedFromPieces(..., 'locality')`.
  */
 export function reorderForLocality(m: StoredHamiltonian, shared = false): StoredHamiltonian {
   const { dim, rowPtr, cols } = m;

@@ -153,5 +153,13 @@ describe('buildProjectedHamiltonianParallel', () => {
     let overlap = 0;
     for (let i = 0; i < a.length; i++) overlap += a[i]! * b[i]!;
     expect(Math.abs(Math.abs(overlap) - 1)).toBeLessThan(1e-8);
+    // One thread renumbers by default at this size (REORDER_MIN_DIM); same ground state.
+    const single = await projectAndSolve(h, basis, sector, { threads: 1, tol: 1e-11 });
+    expect(single.matrix!.order).toBeInstanceOf(Int32Array);
+    expect(Math.abs(single.eigen.values[0]! - plain.eigen.values[0]!)).toBeLessThan(1e-9);
+    const c = single.eigen.vectors[0]!;
+    let overlap1 = 0;
+    for (let i = 0; i < c.length; i++) overlap1 += c[i]! * b[i]!;
+    expect(Math.abs(Math.abs(overlap1) - 1)).toBeLessThan(1e-8);
   });
 });
