@@ -9,7 +9,7 @@ import { compileSector } from '../src/sectors/sector.js';
 import { buildProjectedHamiltonianParallel } from '../src/build/parallelBuild.js';
 import { sectorFlipTest } from '../src/build/projectedHamiltonian.js';
 import { rowScanPlan } from '../src/build/rowScan.js';
-import { applyStoredRows, reorderForLocality, storedBytes } from '../src/build/storedHamiltonian.js';
+import { applyStoredRows, storedBytes } from '../src/build/storedHamiltonian.js';
 import { MatvecTeam } from '../src/parallel/matvecTeam.js';
 import { REORDER_MIN_DIM } from '../src/pipeline/solve.js';
 import { closeSolveWorkers } from '../src/parallel/solveWorkers.js';
@@ -45,9 +45,9 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
   await build(2); // warm the pool and the JIT
   const build1 = Math.min(await build(1), await build(1));
   const build2 = Math.min(await build(2), await build(2));
-  // The matrix as the solver holds it (renumbered for locality from REORDER_MIN_DIM).
-  const built = await buildProjectedHamiltonianParallel(basis, plan, 2);
-  const m = built.dim >= REORDER_MIN_DIM ? reorderForLocality(built, true) : built;
+  // The matrix as the solver holds it: renumbered for locality from REORDER_MIN_DIM for one-thread
+  // products, in basis order for a team.
+  let m = await buildProjectedHamiltonianParallel(basis, plan, 2, { locality: basis.dim >= REORDER_MIN_DIM });
   const n = m.dim;
   const x = new Float64Array(n).fill(1);
   const y = new Float64Array(n);
@@ -64,6 +64,7 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
     return best;
   };
   const one = time(() => applyStoredRows(m, x, y));
+  if (m.order) m = await buildProjectedHamiltonianParallel(basis, plan, 2);
   const team = new MatvecTeam({ kind: 'stored', complex: false, dim: n, matrix: m }, 2);
   const two = time(() => team.apply(x, y));
   team.close();

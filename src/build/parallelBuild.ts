@@ -38,7 +38,8 @@ export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): Uppe
  * Build H_S on this thread and threads−1 solve workers: the basis must sit on SharedArrayBuffers
  * (makeBasis with `shared`); every thread takes row chunks from a shared counter (several per
  * thread for balance), and the upper-triangle pieces are mirrored, in row order, into one stored
- * Hamiltonian. Identical output for any thread count.
+ * Hamiltonian. Identical output for any thread count. With `locality` the rows are stored in
+ * breadth-first order (`localityOrder`), assembled so from the pieces: no basis-order copy is made.
  */
 export async function buildProjectedHamiltonianParallel(
   basis: Basis,
@@ -47,15 +48,21 @@ export async function buildProjectedHamiltonianParallel(
   opts: {
     /** Upper entries per row, when the caller has estimated them already (see `upperPerRowEstimate`). */
     upperPerRow?: number;
+    /** Store the rows renumbered for locality (as `reorderForLocality` would). */
+    locality?: boolean;
     onProgress?: (rowsDone: number, rows: number) => void;
   } = {},
 ): Promise<StoredHamiltonian> {
   const { onProgress } = opts;
   const shared = basis.states.buffer instanceof SharedArrayBuffer && basis.slots.buffer instanceof SharedArrayBuffer;
+  // The pieces are dropped when this returns, before the caller allocates its solver vectors.
+  const assemble = (pieces: UpperPiece[], sharedArrays: boolean): StoredHamiltonian =>
+    storedFromPieces(basis.dim, plan.complex, pieces, sharedArrays, opts.locality ? 'locality' : undefined);
   if (threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared) {
     const piece = buildUpperRows(basis, plan, 0, basis.dim);
     onProgress?.(basis.dim, basis.dim);
-    return storedFromPieces(basis.dim, plan.complex, [piece]);
+    // A renumbered matrix goes on shared memory when the basis does, as reorderForLocality put it.
+    return assemble([piece], opts.locality === true && shared);
   }
   // Only the shared arrays travel; `counts` stays on this thread.
   const view: Basis = { qubits: basis.qubits, nWords: basis.nWords, dim: basis.dim, states: basis.states, slots: basis.slots, filter: basis.filter, counts: new Float64Array(0) };
@@ -100,5 +107,5 @@ export async function buildProjectedHamiltonianParallel(
   }
   const pieces = [...own, ...helped.flat()].sort((a, b) => a.r0 - b.r0);
   onProgress?.(basis.dim, basis.dim);
-  return storedFromPieces(basis.dim, plan.complex, pieces, true);
+  return assemble(pieces, true);
 }

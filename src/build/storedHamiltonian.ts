@@ -43,11 +43,22 @@ export function storedNonzeros(m: StoredHamiltonian): number {
   return m.rowPtr[m.dim]! + diagonals;
 }
 
+/** A renumbering of the rows: storage row i holds basis row take[i], and basis row r sits at posOf[r]. */
+export interface StorageOrder {
+  take: Int32Array;
+  posOf: Int32Array;
+}
+
 /**
  * Join upper-triangle pieces (in row order) into a stored Hamiltonian: each row gets its mirrored
  * lower entries (ascending columns) then its upper ones. `shared`: arrays on SharedArrayBuffers.
+ * With `order` the rows are stored in that order and the result records it; 'locality' finds
+ * `localityOrder`'s order in the arrays about to be filled, so it costs no memory beyond the
+ * order itself. Either way the result has the arrays `reorderForLocality` would make from the
+ * basis-order matrix, which never exists.
  */
-export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false): StoredHamiltonian {
+export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false, order?: StorageOrder | 'locality'): StoredHamiltonian {
+  if (order) return storedInOrder(dim, complex, pieces, order, shared);
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
   const w = complex ? 2 : 1;
   const diag = new Float64Array(alloc(w * dim * 8));
@@ -104,6 +115,105 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
     }
   }
   return coding ? { dim, complex, diag, rowPtr, cols, codes, table: coding.table } : { dim, complex, diag, rowPtr, cols, values };
+}
+
+/**
+ * Storage row i = basis row take[i]. Every upper entry (r, c) lands in storage row posOf[r] and
+ * its mirror in posOf[c]; each row is then sorted by column, as `permuteStored` leaves it.
+ */
+function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], order: StorageOrder | 'locality', shared: boolean): StoredHamiltonian {
+  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
+  const w = complex ? 2 : 1;
+  let upper = 0;
+  for (const p of pieces) upper += p.cols.length;
+  const nnz = 2 * upper;
+  const cols = new Int32Array(alloc(nnz * 4));
+  // Entries of each basis row: the mirrors of upper entries in its column, plus its upper ones.
+  const count = new Uint32Array(dim);
+  let take: Int32Array;
+  let posOf: Int32Array;
+  if (order === 'locality') {
+    // The search's scratch is `count` (lower-list ends) and the first half of `cols`.
+    ({ take, posOf } = breadthFirst(dim, pieces, count, cols.subarray(0, Math.max(1, upper))));
+    for (let r = dim - 1; r > 0; r--) count[r]! -= count[r - 1]!;
+  } else {
+    ({ take, posOf } = order);
+    for (const p of pieces) for (let e = 0; e < p.cols.length; e++) count[p.cols[e]!]!++;
+  }
+  const diag = new Float64Array(alloc(w * dim * 8));
+  for (const p of pieces) {
+    for (let r = p.r0; r < p.r1; r++) {
+      const i = r - p.r0;
+      for (let k = 0; k < w; k++) diag[w * posOf[r]! + k] = p.diag[w * i + k]!;
+      count[r]! += p.rowEnd[i]! - (i === 0 ? 0 : p.rowEnd[i - 1]!);
+    }
+  }
+  const coding = valueCodes(pieces, complex);
+  // rowPtr[i + 1] starts as row i's start and moves along as the row fills: it then ends the row.
+  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
+  let at = 0;
+  for (let i = 0; i < dim; i++) {
+    rowPtr[i + 1] = at;
+    at += count[take[i]!]!;
+  }
+  const bytesPerCode = coding ? (coding.count <= 256 ? 1 : 2) : 0;
+  const codes = coding ? (bytesPerCode === 1 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2))) : undefined;
+  const values = coding ? undefined : new Float64Array(alloc(w * nnz * 8));
+  let codeAt = 0;
+  for (const p of pieces) {
+    let e = 0;
+    for (let r = p.r0; r < p.r1; r++) {
+      const i = posOf[r]!;
+      for (const end = p.rowEnd[r - p.r0]!; e < end; e++) {
+        const j = posOf[p.cols[e]!]!;
+        const pos = rowPtr[i + 1]!++;
+        const lp = rowPtr[j + 1]!++;
+        cols[pos] = j;
+        cols[lp] = i;
+        if (codes) {
+          const code = coding!.codeOf[codeAt++]!;
+          codes[pos] = code;
+          codes[lp] = coding!.conjugate[code]!;
+        } else if (complex) {
+          values![2 * pos] = p.values[2 * e]!;
+          values![2 * pos + 1] = p.values[2 * e + 1]!;
+          values![2 * lp] = p.values[2 * e]!;
+          values![2 * lp + 1] = -p.values[2 * e + 1]!;
+        } else {
+          values![pos] = p.values[e]!;
+          values![lp] = p.values[e]!;
+        }
+      }
+    }
+  }
+  for (let i = 0; i < dim; i++) sortByColumn(cols, codes, values, w, rowPtr[i]!, rowPtr[i + 1]!);
+  const out: StoredHamiltonian = coding ? { dim, complex, diag, rowPtr, cols, codes, table: coding.table } : { dim, complex, diag, rowPtr, cols, values };
+  out.order = take;
+  return out;
+}
+
+// Insertion sort of one stored row by column (rows hold a handful of entries), codes or values alongside.
+function sortByColumn(cols: Int32Array, codes: Uint8Array | Uint16Array | undefined, values: Float64Array | undefined, w: number, start: number, end: number): void {
+  for (let a = start + 1; a < end; a++) {
+    const c = cols[a]!;
+    if (c > cols[a - 1]!) continue;
+    const code = codes ? codes[a]! : 0;
+    const v0 = values ? values[w * a]! : 0;
+    const v1 = values && w === 2 ? values[w * a + 1]! : 0;
+    let j = a - 1;
+    while (j >= start && cols[j]! > c) {
+      cols[j + 1] = cols[j]!;
+      if (codes) codes[j + 1] = codes[j]!;
+      else for (let k = 0; k < w; k++) values![w * (j + 1) + k] = values![w * j + k]!;
+      j--;
+    }
+    cols[j + 1] = c;
+    if (codes) codes[j + 1] = code;
+    else {
+      values![w * (j + 1)] = v0;
+      if (w === 2) values![w * (j + 1) + 1] = v1;
+    }
+  }
 }
 
 /**
@@ -264,10 +374,79 @@ function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array
 }
 
 /**
+ * The breadth-first order `reorderForLocality` finds, read straight from upper-triangle pieces (in
+ * row order) before any stored matrix exists. A row's neighbours are visited as its stored row
+ * lists them: the mirrored lower ones, then its upper ones. Only the lower ones need a transposed
+ * copy (4 bytes an upper entry); the upper ones are read from the pieces.
+ */
+export function localityOrder(dim: number, pieces: UpperPiece[]): StorageOrder {
+  let upper = 0;
+  for (const p of pieces) upper += p.cols.length;
+  return breadthFirst(dim, pieces, new Uint32Array(dim), new Int32Array(Math.max(1, upper)));
+}
+
+/**
+ * `localityOrder` in caller-given scratch: `lowEnd` (dim zeros) ends up holding where each row's
+ * list of lower neighbours ends in `lowAdj` (at least one slot per upper entry).
+ */
+function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lowAdj: Int32Array): StorageOrder {
+  // Lower-list lengths, then starts, then (after the fill) ends. 32 bits suffice: they index a typed array.
+  for (const p of pieces) for (let e = 0; e < p.cols.length; e++) lowEnd[p.cols[e]!]!++;
+  let at = 0;
+  for (let r = 0; r < dim; r++) {
+    const n = lowEnd[r]!;
+    lowEnd[r] = at;
+    at += n;
+  }
+  for (const p of pieces) {
+    let e = 0;
+    for (let r = p.r0; r < p.r1; r++) for (const end = p.rowEnd[r - p.r0]!; e < end; e++) lowAdj[lowEnd[p.cols[e]!]!++] = r;
+  }
+  const take = new Int32Array(dim);
+  const posOf = new Int32Array(dim).fill(-1);
+  let head = 0;
+  let tail = 0;
+  for (let s = 0; s < dim; s++) {
+    if (posOf[s]! >= 0) continue;
+    posOf[s] = tail;
+    take[tail++] = s;
+    while (head < tail) {
+      const r = take[head++]!;
+      for (let e = r === 0 ? 0 : lowEnd[r - 1]!, end = lowEnd[r]!; e < end; e++) {
+        const c = lowAdj[e]!;
+        if (posOf[c]! < 0) {
+          posOf[c] = tail;
+          take[tail++] = c;
+        }
+      }
+      // The piece holding row r: a binary search over the few pieces' first rows.
+      let lo = 0;
+      for (let hi = pieces.length - 1; lo < hi; ) {
+        const mid = (lo + hi + 1) >> 1;
+        if (pieces[mid]!.r0 <= r) lo = mid;
+        else hi = mid - 1;
+      }
+      while (pieces[lo]!.r1 <= r) lo--; // past empty pieces that start at r
+      const p = pieces[lo]!;
+      const i = r - p.r0;
+      for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!, end = p.rowEnd[i]!; e < end; e++) {
+        const c = p.cols[e]!;
+        if (posOf[c]! < 0) {
+          posOf[c] = tail;
+          take[tail++] = c;
+        }
+      }
+    }
+  }
+  return { take, posOf };
+}
+
+/**
  * Renumber the rows in breadth-first order of the matrix graph (Cuthill–McKee without the degree
  * sort): a row's neighbours then sit close together, so a product's gathers from x mostly hit
  * cache lines already loaded. On a sampled Heisenberg subspace at D = 10^6 this halves the product
- * time. The result records the order; `storedOperator` and `toSparseMatrix` undo it.
+ * time. The result records the order; `storedOperator` and `toSparseMatrix` undo it. The solver
+ * gets the same matrix without this second copy: `storedFromPieces(..., 'locality')`.
  */
 export function reorderForLocality(m: StoredHamiltonian, shared = false): StoredHamiltonian {
   const { dim, rowPtr, cols } = m;
@@ -314,6 +493,36 @@ export function permuteVector(m: StoredHamiltonian, x: Float64Array, out: Float6
       if (toStorage) out[w * i + k] = x[w * b + k]!;
       else out[w * b + k] = x[w * i + k]!;
     }
+  }
+}
+
+/**
+ * x in storage order → basis order in place, following the permutation's cycles (a byte a row to
+ * mark them), so a large eigenvector is not copied.
+ */
+export function toBasisOrderInPlace(m: StoredHamiltonian, x: Float64Array): void {
+  const order = m.order!;
+  const w = m.complex ? 2 : 1;
+  const done = new Uint8Array(m.dim);
+  for (let s = 0; s < m.dim; s++) {
+    if (done[s]) continue;
+    // Carry storage row i's entry to basis row order[i], picking up the entry found there.
+    let re = x[w * s]!;
+    let im = w === 2 ? x[w * s + 1]! : 0;
+    let i = s;
+    do {
+      const t = order[i]!;
+      done[t] = 1;
+      const re2 = x[w * t]!;
+      x[w * t] = re;
+      re = re2;
+      if (w === 2) {
+        const im2 = x[w * t + 1]!;
+        x[w * t + 1] = im;
+        im = im2;
+      }
+      i = t;
+    } while (i !== s);
   }
 }
 

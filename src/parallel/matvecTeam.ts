@@ -91,7 +91,9 @@ export class MatvecTeam implements LinearOperator {
     const members = teamMembers(spec.dim, threads);
     const control = new SharedArrayBuffer(16);
     const ys = spec.kind === 'stored' ? [] : Array.from({ length: members }, () => sharedVector(len));
-    this.spec = { ...spec, vectors: [], ys, bounds: splitRows(spec, members), control };
+    // Members never need a renumbered matrix's order, and posting it would copy it to each of them.
+    const matrix = spec.matrix?.order ? { ...spec.matrix, order: undefined } : spec.matrix;
+    this.spec = { ...spec, matrix, vectors: [], ys, bounds: splitRows(spec, members), control };
     this.ctrl = new Int32Array(control);
     this.dim = spec.dim;
     this.complex = spec.complex;

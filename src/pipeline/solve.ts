@@ -5,7 +5,7 @@ import { buildProjectedHamiltonianParallel, MIN_ROWS_PARALLEL } from '../build/p
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { filterOrder, FILTER_ORDER_MIN_BYTES, rowScanPlan } from '../build/rowScan.js';
-import { applyStoredRows, permuteVector, reorderForLocality, storedNonzeros, type StoredHamiltonian } from '../build/storedHamiltonian.js';
+import { applyStoredRows, permuteVector, storedNonzeros, toBasisOrderInPlace, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threads.js';
 import { makeBasis } from '../bits/basis.js';
@@ -192,13 +192,15 @@ export function storedOperator(m: StoredHamiltonian): LinearOperator {
 }
 
 /**
- * Dimension from which the stored matrix is renumbered for locality before the solve: by default
- * never. Measured on the bench's Heisenberg cases (2 cores): renumbering halves each product, but
- * at D = 10^6 it costs (~0.3 s) about what it saves in 50 products, and at 2×10^6 the second copy
- * of the matrix it needs raised the peak from 386 to 487 MB for a gain lost in the noise. Worth
- * it for many products (several eigenpairs, long sweeps): pass `reorderFromDim`.
+ * Dimension from which the stored matrix is built renumbered for locality when its products run
+ * on one thread. The renumbered rows are assembled straight from the build's pieces, so the peak
+ * does not rise (bench Heisenberg cases, 64 qubits, 2 shared cores: 403 vs 433 MB at D = 2×10^6,
+ * medians of 5). On one thread a product then takes 0.5–0.76× the time and a one-eigenpair solve
+ * gains 3–15% overall from D ≈ 5×10^4; the renumbering costs ~0.2 µs a row. A two-thread team's
+ * product took 0.75–0.95×, which a one-eigenpair solve (~50 products) did not win back, so teams
+ * keep basis order unless `reorderFromDim` asks (worth it for many products: several eigenpairs).
  */
-export const REORDER_MIN_DIM = Infinity;
+export const REORDER_MIN_DIM = 50000;
 
 /** Operator view of a stored sparse matrix. */
 export function matrixOperator(m: SparseMatrix): LinearOperator {
@@ -300,7 +302,7 @@ export interface SolverSettings {
   memoryBytes?: number;
   /** Apply H on the fly instead of storing H_S. */
   matrixFree?: boolean;
-  /** Renumber a stored matrix's rows for locality from this dimension (default: never; see REORDER_MIN_DIM). */
+  /** Renumber a stored matrix's rows for locality from this dimension (default: REORDER_MIN_DIM when products run on one thread, else never). */
   reorderFromDim?: number;
   /** Progress of the build (rows) and of the solve (matrix-vector products, residual). */
   onBuildProgress?: (rowsDone: number, rows: number) => void;
@@ -334,24 +336,26 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   if (basis.dim >= COLLECT_MIN_DIM) collectGarbage();
   const plan = planMemory(basis, scan, { budgetBytes: settings.memoryBytes, eigs, matrixFree: settings.matrixFree, threads });
   const shared = basis.states.buffer instanceof SharedArrayBuffer;
+  // Products run on a team of threads, or on this one.
+  const teamed = threads > 1 && shared;
   // The product workers start now, so they are ready by the end of the build.
-  if (threads > 1 && shared) startMatvecWorkers(basis.dim, threads);
+  if (teamed) startMatvecWorkers(basis.dim, threads);
   let matrix: StoredHamiltonian | undefined;
   let op: LinearOperator;
   let team: MatvecTeam | undefined;
   if (plan.storage === 'stored') {
     // The memory plan sampled rows already: nonzeros = 2·upper + dim.
     const upperPerRow = (plan.nonzerosEstimate - basis.dim) / (2 * Math.max(1, basis.dim));
-    matrix = await buildProjectedHamiltonianParallel(basis, scan, threads, { upperPerRow, onProgress: settings.onBuildProgress });
-    if (matrix.dim >= (settings.reorderFromDim ?? REORDER_MIN_DIM)) matrix = reorderForLocality(matrix, shared);
+    const locality = basis.dim >= (settings.reorderFromDim ?? (teamed ? Infinity : REORDER_MIN_DIM));
+    matrix = await buildProjectedHamiltonianParallel(basis, scan, threads, { upperPerRow, locality, onProgress: settings.onBuildProgress });
     // Lanczos runs in storage order; its start vector goes in and its eigenvectors come out below.
     const m = matrix;
-    op = threads > 1 && shared ? (team = new MatvecTeam({ kind: 'stored', complex: m.complex, dim: m.dim, matrix: m }, threads)) : { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
+    op = teamed ? (team = new MatvecTeam({ kind: 'stored', complex: m.complex, dim: m.dim, matrix: m }, threads)) : { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
   } else {
     const view: Basis = { ...basis, counts: new Float64Array(0) };
     const rows = basis.filter.byteLength >= FILTER_ORDER_MIN_BYTES ? filterOrder(basis) : undefined;
     const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan, rows };
-    op = threads > 1 && shared ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y, rows)) };
+    op = teamed ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y, rows)) };
   }
   // The build's pieces are garbage now: give them back before Lanczos allocates its vectors.
   if (basis.dim >= COLLECT_MIN_DIM) collectGarbage();
@@ -375,13 +379,8 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   } finally {
     team?.close();
   }
-  if (reordered) {
-    eigen.vectors = eigen.vectors.map((v) => {
-      const out = new Float64Array(v.length);
-      permuteVector(reordered, v, out, false);
-      return out;
-    });
-  }
+  // In place: a second D-long vector here would add to the peak.
+  if (reordered) for (const v of eigen.vectors) toBasisOrderInPlace(reordered, v);
   const t2 = performance.now();
   return {
     matrix,

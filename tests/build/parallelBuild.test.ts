@@ -1,8 +1,14 @@
+import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { makeBasis } from '../../src/bits/basis.js';
 import { buildProjectedHamiltonianParallel } from '../../src/build/parallelBuild.js';
 import { sectorFlipTest } from '../../src/build/projectedHamiltonian.js';
 import { rowScanPlan } from '../../src/build/rowScan.js';
+import { reorderForLocality, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
+import { readHamiltonian } from '../../src/io/readHamiltonian.js';
+import { readSamples } from '../../src/io/readSamples.js';
+import { selectSubspace } from '../../src/sectors/selectSubspace.js';
+import { tempDir } from '../helpers.js';
 import { groupByFlipMask, PauliSumBuilder } from '../../src/operators/pauliSum.js';
 import { compileSector } from '../../src/sectors/sector.js';
 import { projectAndSolve, projectAndSolveSync } from '../../src/pipeline/solve.js';
@@ -64,6 +70,63 @@ describe('buildProjectedHamiltonianParallel', () => {
     });
   }
 
+  it('a locality build (rows renumbered while assembling) is byte for byte reorderForLocality of the basis-order build, on 1, 2 and 4 threads (sampled Heisenberg torus)', async () => {
+    // 36-qubit Heisenberg torus, 26000 sampled configurations: the build goes to worker threads.
+    const { writeBenchCase } = (await import(join(process.cwd(), 'dist/bench/cases.js'))) as typeof import('../../bench/cases.js');
+    const { hamiltonian, samples } = writeBenchCase(tempDir('bitspan-locality-'), { side: 6, distinct: 26000, seed: 3 });
+    const h = await readHamiltonian(hamiltonian);
+    const sector = { weights: [{ lo: 0, hi: -1, weight: 18 }] };
+    const { basis } = selectSubspace(await readSamples([samples]), { sector, shared: true });
+    const groups = groupByFlipMask(h, basis.nWords);
+    const plan = rowScanPlan(groups, sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords)));
+    const want = reorderForLocality(await buildProjectedHamiltonianParallel(basis, plan, 1));
+    const bytes = (a: ArrayBufferView | undefined): Buffer | undefined => (a ? Buffer.from(a.buffer, a.byteOffset, a.byteLength) : undefined);
+    for (const threads of [1, 2, 4]) {
+      const got: StoredHamiltonian = await buildProjectedHamiltonianParallel(basis, plan, threads, { locality: true });
+      for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
+        const [g, w] = [bytes(got[key]), bytes(want[key])];
+        expect(g === undefined ? w === undefined : w !== undefined && g.equals(w), `${key}, ${threads} threads`).toBe(true);
+      }
+    }
+    // Independently of reorderForLocality: in a breadth-first numbering every row after the first
+    // of its component has a neighbour numbered before it, and these parents (each row's smallest
+    // neighbour) never decrease along the order (standard property of BFS / Cuthill–McKee orders).
+    const { rowPtr, cols, dim } = want;
+    expect(dim).toBeGreaterThan(20000);
+    let lastParent = -1;
+    let roots = 0;
+    let decreases = 0;
+    for (let i = 0; i < dim; i++) {
+      let parent = i;
+      for (let e = rowPtr[i]!; e < rowPtr[i + 1]!; e++) parent = Math.min(parent, cols[e]!);
+      if (parent === i) {
+        roots++;
+        continue;
+      }
+      if (parent < lastParent) decreases++;
+      lastParent = parent;
+    }
+    expect(decreases).toBe(0);
+    // One tree per connected component: count those with union–find over the entries.
+    const parentOf = Int32Array.from({ length: dim }, (_, i) => i);
+    const find = (x: number): number => {
+      while (parentOf[x] !== x) x = parentOf[x] = parentOf[parentOf[x]!]!;
+      return x;
+    };
+    let components = dim;
+    for (let i = 0; i < dim; i++) {
+      for (let e = rowPtr[i]!; e < rowPtr[i + 1]!; e++) {
+        const [a, b] = [find(i), find(cols[e]!)];
+        if (a !== b) {
+          parentOf[a] = b;
+          components--;
+        }
+      }
+    }
+    expect(roots).toBe(components);
+    expect(components).toBeLessThan(dim);
+  });
+
   it('projectAndSolve gives the same energies to 1e-10 for 1, 2 and 4 threads, stored and matrix-free', async () => {
     const { h, n, states, dim } = problem(true, 6000);
     const basis = makeBasis(n, 2, states, dim, undefined, true);
@@ -90,5 +153,13 @@ describe('buildProjectedHamiltonianParallel', () => {
     let overlap = 0;
     for (let i = 0; i < a.length; i++) overlap += a[i]! * b[i]!;
     expect(Math.abs(Math.abs(overlap) - 1)).toBeLessThan(1e-8);
+    // One thread renumbers by default at this size (REORDER_MIN_DIM); same ground state.
+    const single = await projectAndSolve(h, basis, sector, { threads: 1, tol: 1e-11 });
+    expect(single.matrix!.order).toBeInstanceOf(Int32Array);
+    expect(Math.abs(single.eigen.values[0]! - plain.eigen.values[0]!)).toBeLessThan(1e-9);
+    const c = single.eigen.vectors[0]!;
+    let overlap1 = 0;
+    for (let i = 0; i < c.length; i++) overlap1 += c[i]! * b[i]!;
+    expect(Math.abs(Math.abs(overlap1) - 1)).toBeLessThan(1e-8);
   });
 });

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { UpperPiece } from '../../src/build/projectedHamiltonian.js';
 import { toDense } from '../../src/build/sparseMatrix.js';
-import { applyStoredRows, permuteVector, reorderForLocality, storedFromPieces, storedNonzeros, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
+import { applyStoredRows, localityOrder, permuteVector, reorderForLocality, storedFromPieces, storedNonzeros, toBasisOrderInPlace, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
 import { seededUniform } from '../../src/util/random.js';
 
 /**
@@ -146,9 +146,66 @@ describe('reorderForLocality', () => {
           applyStoredRows(r, xs, ys);
           permuteVector(r, ys, y, false);
           for (let i = 0; i < w * dim; i++) expect(Math.abs(y[i]! - y0[i]!)).toBeLessThan(1e-12);
+          // In place, the same move (entry i of storage order is entry order[i] in basis order).
+          toBasisOrderInPlace(r, ys);
+          expect(Array.from(ys)).toEqual(Array.from(y));
         }
       }),
       { numRuns: 100, seed: 21 },
     );
   });
+
+  it('storedFromPieces with localityOrder builds, byte for byte, what reorderForLocality makes of the basis-order matrix', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 40 }), fc.boolean(), fc.integer({ min: 1, max: 1e6 }), fc.constantFrom(0, 3, 300), fc.constantFrom(0.02, 0.15), (dim, complex, seed, levels, density) => {
+        const pieces = randomPieces(dim, complex, seed, levels, density);
+        const order = localityOrder(dim, pieces);
+        const got = storedFromPieces(dim, complex, pieces, false, order);
+        const want = reorderForLocality(storedFromPieces(dim, complex, pieces));
+        // 'locality' finds the order inside the arrays it then fills.
+        for (const m of [got, storedFromPieces(dim, complex, pieces, false, 'locality')]) {
+          for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
+            const [g, w] = [m[key], want[key]];
+            expect(g === undefined ? undefined : Buffer.from(g.buffer, g.byteOffset, g.byteLength).toString('hex'), key).toEqual(w === undefined ? undefined : Buffer.from(w.buffer, w.byteOffset, w.byteLength).toString('hex'));
+          }
+        }
+        // Reference order written out from the definition: breadth-first search on the dense
+        // matrix's graph, neighbours taken in ascending index, each unvisited row starting a tree.
+        const dense = denseOf(dim, complex, pieces);
+        const seen = new Uint8Array(dim);
+        const bfs: number[] = [];
+        for (let s0 = 0; s0 < dim; s0++) {
+          if (seen[s0]) continue;
+          seen[s0] = 1;
+          bfs.push(s0);
+          for (let h = bfs.length - 1; h < bfs.length; h++) {
+            const r = bfs[h]!;
+            for (let c = 0; c < dim; c++) {
+              if (c === r || seen[c] || (dense.re[r * dim + c] === 0 && dense.im[r * dim + c] === 0 && !hasEntry(pieces, r, c))) continue;
+              seen[c] = 1;
+              bfs.push(c);
+            }
+          }
+        }
+        expect(Array.from(order.take)).toEqual(bfs);
+        for (let i = 0; i < dim; i++) expect(order.posOf[order.take[i]!]).toBe(i);
+        // And the stored matrix is the Hermitian completion of the pieces, in basis order.
+        const back = toDense(toSparseMatrix(got));
+        expect(Array.from(back.re, (v) => v + 0)).toEqual(Array.from(dense.re, (v) => v + 0));
+        expect(Array.from(back.im, (v) => v + 0)).toEqual(Array.from(dense.im, (v) => v + 0));
+      }),
+      { numRuns: 150, seed: 22 },
+    );
+  });
 });
+
+/** Whether the pieces hold an entry (r, c) or (c, r), zero-valued or not: stored entries are graph edges. */
+function hasEntry(pieces: UpperPiece[], r: number, c: number): boolean {
+  const [a, b] = r < c ? [r, c] : [c, r];
+  for (const p of pieces) {
+    if (a < p.r0 || a >= p.r1) continue;
+    const i = a - p.r0;
+    for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!; e < p.rowEnd[i]!; e++) if (p.cols[e] === b) return true;
+  }
+  return false;
+}
