@@ -101,6 +101,7 @@ async function main(): Promise<void> {
         buildSpeedupThreads2: mv?.buildSpeedup ?? (ours1.timings as Record<string, number>).build! / (ours2.timings as Record<string, number>).build!,
         matvec: mv,
         matvecBandwidthFraction: mv ? mv.bandwidth1GBs! / stream : null,
+        matvecBandwidthFractionTeam: mv ? mv.bandwidth2GBs! / stream : null,
         peer: peer ? { energy: peer.energy, residual: peer.residual, wall: peer.wall, timings: peer.timings, peakMB: peer.peakRSSMB, matvecs: peer.matvecs, nonzeros: peer.nonzeros } : null,
         ratioWall: peer ? ours2.wall / peer.wall : null,
         ratioPeakMemory: peer ? peak(ours2) / (peer.peakRSSMB as number) : null,
