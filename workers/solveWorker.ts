@@ -4,10 +4,10 @@
 import { parentPort, receiveMessageOnPort } from 'node:worker_threads';
 import { buildTakenChunks } from '../src/build/parallelBuild.js';
 import { BitspanError } from '../src/errors.js';
-import { applyTeamRows, type MemberSpec } from '../src/parallel/matvecTeam.js';
+import { runTeamTask, type MemberSpec } from '../src/parallel/matvecTeam.js';
 import type { BuildReply, SolveWorkerMessage } from '../src/parallel/solveWorkers.js';
 
-/** Apply this member's rows on every new generation of the team's counter, until it goes negative. */
+/** Do this member's part of each task the team posts (a new generation of its counter), until the counter goes negative. */
 function serve(spec: MemberSpec): void {
   const ctrl = new Int32Array(spec.control);
   let seen = 0;
@@ -17,7 +17,7 @@ function serve(spec: MemberSpec): void {
     if (seen < 0) break;
     // Vectors made since the last product arrive on the port (posted before this wake-up).
     for (let m = receiveMessageOnPort(spec.port); m; m = receiveMessageOnPort(spec.port)) spec.vectors.push(m.message as Float64Array);
-    applyTeamRows(spec, spec.member, Atomics.load(ctrl, 2), Atomics.load(ctrl, 3));
+    runTeamTask(spec, spec.member, ctrl);
     Atomics.add(ctrl, 1, 1);
     Atomics.notify(ctrl, 1);
   }

@@ -4,6 +4,7 @@ import { applyUpperRows } from '../build/projectedHamiltonian.js';
 import type { RowScanPlan } from '../build/rowScan.js';
 import { applyStoredRows, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import type { LinearOperator } from '../solvers/lanczos.js';
+import { localSweeps, replayRange, scaleRange, stepDotsRange, stepUpdateRange, type LanczosSweeps } from '../solvers/lanczosSweeps.js';
 import { closeSolveWorkers, releaseSolveWorkers, startSolveWorkers, takeSolveWorkers, type SolveWorkerMessage } from './solveWorkers.js';
 
 /**
@@ -25,24 +26,52 @@ export interface TeamSpec {
   vectors: Float64Array[];
   ys: Float64Array[];
   bounds: Int32Array;
-  /** Int32 slots: generation, members done, input vector index, output vector index. */
+  /** Element ranges per member for the Lanczos vector sweeps (equal lengths). */
+  sweepBounds: Int32Array;
+  /** Int32 slots: generation, members done, task (TASK_*), then four team vector indices. */
   control: SharedArrayBuffer;
+  /** Scalars of a sweep (a, b, inv, yj). */
+  params: Float64Array;
+  /** Two partial sums per member. */
+  partials: Float64Array;
 }
+
+/** Team tasks: the product (vector 0 in, vector 1 out) and the Lanczos sweeps of lanczosSweeps.ts. */
+const TASK_PRODUCT = 0;
+const TASK_DOTS = 1;
+const TASK_UPDATE = 2;
+const TASK_SCALE = 3;
+const TASK_REPLAY = 4;
+/** Control slots: generation, done, task, then the task's vector indices from slot 3. */
+const SLOT_TASK = 2;
+const SLOT_VECTORS = 3;
 
 /** Team vectors handed out by `vector()`: what the two-pass Lanczos holds at once. */
 const HANDED_OUT = 4;
 
-/** Apply member m's rows (the main thread is member 0) from team vector xi into team vector yi. */
-export function applyTeamRows(spec: TeamSpec, m: number, xi: number, yi: number): void {
-  const r0 = spec.bounds[m]!;
-  const r1 = spec.bounds[m + 1]!;
-  if (spec.kind === 'stored') {
-    applyStoredRows(spec.matrix!, spec.vectors[xi]!, spec.vectors[yi]!, r0, r1);
-  } else {
-    const y = spec.ys[m]!;
-    y.fill(0);
-    applyUpperRows(spec.basis!, spec.plan!, r0, r1, spec.vectors[xi]!, y, spec.rows);
+/** Run member m's part (the main thread is member 0) of the task posted in the control slots. */
+export function runTeamTask(spec: TeamSpec, m: number, ctrl: Int32Array): void {
+  const task = Atomics.load(ctrl, SLOT_TASK);
+  const vec = (k: number): Float64Array => spec.vectors[Atomics.load(ctrl, SLOT_VECTORS + k)]!;
+  if (task === TASK_PRODUCT) {
+    const r0 = spec.bounds[m]!;
+    const r1 = spec.bounds[m + 1]!;
+    if (spec.kind === 'stored') {
+      applyStoredRows(spec.matrix!, vec(0), vec(1), r0, r1);
+    } else {
+      const y = spec.ys[m]!;
+      y.fill(0);
+      applyUpperRows(spec.basis!, spec.plan!, r0, r1, vec(0), y, spec.rows);
+    }
+    return;
   }
+  const i0 = spec.sweepBounds[m]!;
+  const i1 = spec.sweepBounds[m + 1]!;
+  const p = spec.params;
+  if (task === TASK_DOTS) stepDotsRange(vec(0), vec(1), vec(2), i0, i1, spec.partials, 2 * m);
+  else if (task === TASK_UPDATE) spec.partials[2 * m] = stepUpdateRange(vec(0), vec(1), vec(2), p[0]!, p[1]!, i0, i1);
+  else if (task === TASK_SCALE) scaleRange(vec(0), p[0]!, i0, i1);
+  else if (task === TASK_REPLAY) replayRange(vec(0), vec(1), vec(2), vec(3), p[0]!, p[1]!, p[2]!, p[3]!, i0, i1);
 }
 
 const sharedVector = (len: number): Float64Array => new Float64Array(new SharedArrayBuffer(Math.max(8, len * 8)));
@@ -86,14 +115,17 @@ export class MatvecTeam implements LinearOperator {
   /** Team indices of the staging vectors (input, output), −1 until made. */
   private staging = [-1, -1];
 
-  constructor(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'control'>, threads: number) {
+  constructor(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'sweepBounds' | 'control' | 'params' | 'partials'>, threads: number) {
     const len = spec.complex ? 2 * spec.dim : spec.dim;
     const members = teamMembers(spec.dim, threads);
-    const control = new SharedArrayBuffer(16);
+    const control = new SharedArrayBuffer(4 * (SLOT_VECTORS + 4));
     const ys = spec.kind === 'stored' ? [] : Array.from({ length: members }, () => sharedVector(len));
     // Members never need a renumbered matrix's order, and posting it would copy it to each of them.
     const matrix = spec.matrix?.order ? { ...spec.matrix, order: undefined } : spec.matrix;
-    this.spec = { ...spec, matrix, vectors: [], ys, bounds: splitRows(spec, members), control };
+    const sweepBounds = Int32Array.from({ length: members + 1 }, (_, m) => Math.floor((len * m) / members));
+    const params = sharedVector(4);
+    const partials = sharedVector(2 * members);
+    this.spec = { ...spec, matrix, vectors: [], ys, bounds: splitRows(spec, members), sweepBounds, control, params, partials };
     this.ctrl = new Int32Array(control);
     this.dim = spec.dim;
     this.complex = spec.complex;
@@ -126,7 +158,6 @@ export class MatvecTeam implements LinearOperator {
   }
 
   apply(x: Float64Array, y: Float64Array): void {
-    const members = this.workers.length + 1;
     const { vectors, ys } = this.spec;
     let xi = vectors.indexOf(x);
     if (xi < 0) {
@@ -137,17 +168,7 @@ export class MatvecTeam implements LinearOperator {
     // Matrix-free members write their own outputs (ys); the index is then unused.
     let yi = stored ? vectors.indexOf(y) : xi;
     if (stored && (yi < 0 || yi === xi)) yi = this.stagingIndex(1);
-    Atomics.store(this.ctrl, 2, xi);
-    Atomics.store(this.ctrl, 3, yi);
-    Atomics.store(this.ctrl, 1, 0);
-    Atomics.add(this.ctrl, 0, 1);
-    Atomics.notify(this.ctrl, 0);
-    applyTeamRows(this.spec, 0, xi, yi);
-    for (;;) {
-      const done = Atomics.load(this.ctrl, 1);
-      if (done >= members - 1) break;
-      Atomics.wait(this.ctrl, 1, done);
-    }
+    this.run(TASK_PRODUCT, [xi, yi]);
     if (stored) {
       if (vectors[yi] !== y) y.set(vectors[yi]!);
       return;
@@ -159,6 +180,62 @@ export class MatvecTeam implements LinearOperator {
     }
   }
 
+  /** Post a task, do this thread's part, and wait for the members. */
+  private run(task: number, vectorIndices: number[], params: number[] = []): void {
+    const members = this.workers.length + 1;
+    Atomics.store(this.ctrl, SLOT_TASK, task);
+    vectorIndices.forEach((v, k) => Atomics.store(this.ctrl, SLOT_VECTORS + k, v));
+    params.forEach((v, k) => (this.spec.params[k] = v));
+    Atomics.store(this.ctrl, 1, 0);
+    Atomics.add(this.ctrl, 0, 1);
+    Atomics.notify(this.ctrl, 0);
+    runTeamTask(this.spec, 0, this.ctrl);
+    for (;;) {
+      const done = Atomics.load(this.ctrl, 1);
+      if (done >= members - 1) break;
+      Atomics.wait(this.ctrl, 1, done);
+    }
+  }
+
+  /** Sum of partial k over the members. */
+  private partial(k: number): number {
+    let s = 0;
+    for (let m = 0; m <= this.workers.length; m++) s += this.spec.partials[2 * m + k]!;
+    return s;
+  }
+
+  /** Team indices of the given vectors, or undefined when one is not a team vector. */
+  private indices(...vs: Float64Array[]): number[] | undefined {
+    const out = vs.map((v) => this.spec.vectors.indexOf(v));
+    return out.some((i) => i < 0) ? undefined : out;
+  }
+
+  /** The Lanczos sweeps split over the team when every vector is one of its own (else on this thread). */
+  readonly sweeps: LanczosSweeps = {
+    dots: (v, w, vPrev) => {
+      const at = this.indices(v, w, vPrev);
+      if (!at) return localSweeps.dots(v, w, vPrev);
+      this.run(TASK_DOTS, at);
+      return [this.partial(0), this.partial(1)];
+    },
+    update: (v, vPrev, w, a, b) => {
+      const at = this.indices(v, vPrev, w);
+      if (!at) return localSweeps.update(v, vPrev, w, a, b);
+      this.run(TASK_UPDATE, at, [a, b]);
+      return this.partial(0);
+    },
+    scale: (w, s) => {
+      const at = this.indices(w);
+      if (!at) return localSweeps.scale(w, s);
+      this.run(TASK_SCALE, at, [s]);
+    },
+    replay: (v, vPrev, w, x, a, b, inv, yj) => {
+      const at = this.indices(v, vPrev, w, x);
+      if (!at) return localSweeps.replay(v, vPrev, w, x, a, b, inv, yj);
+      this.run(TASK_REPLAY, at, [a, b, inv, yj]);
+    },
+  };
+
   /** Release the workers: they leave this team's loop and wait, idle, for the next team. */
   close(): void {
     Atomics.store(this.ctrl, 0, -1);
@@ -169,7 +246,7 @@ export class MatvecTeam implements LinearOperator {
 }
 
 /** Row bounds per member: equal nonzeros for a stored matrix, equal rows otherwise. */
-function splitRows(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'control'>, members: number): Int32Array {
+function splitRows(spec: Omit<TeamSpec, 'vectors' | 'ys' | 'bounds' | 'sweepBounds' | 'control' | 'params' | 'partials'>, members: number): Int32Array {
   const b = new Int32Array(members + 1);
   b[members] = spec.dim;
   if (spec.kind === 'stored' && spec.matrix) {

@@ -1,4 +1,5 @@
 import { seededUniform } from '../util/random.js';
+import type { LanczosSweeps } from './lanczosSweeps.js';
 import { lanczosTwoPass } from './lanczosTwoPass.js';
 import { symmetricEigen } from './symmetricEigen.js';
 import { axpy, dot, norm, orthogonalize, scale } from './vectorOps.js';
@@ -16,6 +17,8 @@ export interface LinearOperator {
    * worker threads); solvers that hold few vectors take theirs from here when it exists.
    */
   vector?(): Float64Array;
+  /** Lanczos vector sweeps on the operator's own threads, for vectors from `vector()` (see lanczosSweeps.ts). */
+  sweeps?: LanczosSweeps;
 }
 
 /** Options of `lanczos`; defaults live in `LANCZOS_DEFAULTS`. */

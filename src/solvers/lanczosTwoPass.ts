@@ -1,6 +1,7 @@
 import { seededUniform } from '../util/random.js';
 import type { LanczosResult, LinearOperator } from './lanczos.js';
 import { tridiagonalLowest } from './tridiagonalLowest.js';
+import { localSweeps, type LanczosSweeps } from './lanczosSweeps.js';
 import { axpy, dot, norm, scale } from './vectorOps.js';
 
 /** Options of `lanczosTwoPass`. */
@@ -47,6 +48,8 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
   let residualEstimate = Infinity;
   // Vectors from the operator when it offers them (shared with its threads: no copies per product).
   const vector = (): Float64Array => op.vector?.() ?? new Float64Array(len);
+  // The operator's threads share the vector sweeps too when it offers them (its own vectors only).
+  const sweeps: LanczosSweeps = op.sweeps ?? localSweeps;
   let vPrev = vector();
   let v = vector();
   let w = vector();
@@ -58,7 +61,7 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
     if (kept.length < keep) kept.push(Float64Array.from(v));
     op.apply(v, w);
     matvecs++;
-    const { a, b } = lanczosStep(v, vPrev, w, j > 0 ? beta[j - 1]! : 0);
+    const { a, b } = lanczosStep(sweeps, v, vPrev, w, j > 0 ? beta[j - 1]! : 0);
     alpha.push(a);
     scaleSeen = Math.max(scaleSeen, Math.abs(a) + b);
     const last = j + 1 === op.dim || b <= 1e-14 * scaleSeen;
@@ -73,7 +76,7 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
     }
     if (last) break;
     beta.push(b);
-    scale(w, 1 / b);
+    sweeps.scale(w, 1 / b);
     const t = vPrev;
     vPrev = v;
     v = w;
@@ -100,7 +103,7 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
       }
       op.apply(v, w);
       matvecs++;
-      replayStep(v, vPrev, w, x, alpha[j]!, j > 0 ? beta[j - 1]! : 0, beta[j]!, y[j]!);
+      sweeps.replay(v, vPrev, w, x, alpha[j]!, j > 0 ? beta[j - 1]! : 0, 1 / beta[j]!, y[j]!);
       const t = vPrev;
       vPrev = v;
       v = w;
@@ -135,31 +138,8 @@ const CHECK_EVERY_STEP = 60;
  * w ← w − α v − β v_prev and its norm in a second sweep. Real arithmetic on interleaved complex
  * vectors is exact here: α and β are real for a Hermitian operator.
  */
-function lanczosStep(v: Float64Array, vPrev: Float64Array, w: Float64Array, b: number): { a: number; b: number } {
-  const n = v.length;
-  let vw = 0;
-  let vp = 0;
-  for (let i = 0; i < n; i++) {
-    const vi = v[i]!;
-    vw += vi * w[i]!;
-    vp += vi * vPrev[i]!;
-  }
+function lanczosStep(sweeps: LanczosSweeps, v: Float64Array, vPrev: Float64Array, w: Float64Array, b: number): { a: number; b: number } {
+  const [vw, vp] = sweeps.dots(v, w, vPrev);
   const a = vw - b * vp;
-  let ss = 0;
-  for (let i = 0; i < n; i++) {
-    const wi = w[i]! - a * v[i]! - b * vPrev[i]!;
-    w[i] = wi;
-    ss += wi * wi;
-  }
-  return { a, b: Math.sqrt(ss) };
-}
-
-/** The replayed step in one sweep: x += y_j v, then w ← (w − α v − β v_prev) / β_next. */
-function replayStep(v: Float64Array, vPrev: Float64Array, w: Float64Array, x: Float64Array, a: number, b: number, bNext: number, yj: number): void {
-  const inv = 1 / bNext;
-  for (let i = 0, n = v.length; i < n; i++) {
-    const vi = v[i]!;
-    x[i]! += yj * vi;
-    w[i] = (w[i]! - a * vi - b * vPrev[i]!) * inv;
-  }
+  return { a, b: Math.sqrt(sweeps.update(v, vPrev, w, a, b)) };
 }

@@ -1,6 +1,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { applyStoredRows, storedFromPieces, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
 import { closeMatvecWorkers, MatvecTeam, startMatvecWorkers, teamMembers } from '../../src/parallel/matvecTeam.js';
+import { lanczos } from '../../src/solvers/lanczos.js';
+import { localSweeps } from '../../src/solvers/lanczosSweeps.js';
 import { seededUniform } from '../../src/util/random.js';
 
 afterAll(closeMatvecWorkers);
@@ -104,5 +106,51 @@ describe('MatvecTeam', () => {
     team.apply(x, got);
     team.close();
     expect(maxDiff(got, want)).toBe(0);
+  });
+
+  it('MatvecTeam.sweeps split the Lanczos vector sweeps over the team and agree with the one-thread sweeps', () => {
+    const m = randomSymmetric(9000, 3, 51);
+    const team = new MatvecTeam({ kind: 'stored', complex: false, dim: m.dim, matrix: m }, 3);
+    try {
+      const [v, vPrev, w, x] = [team.vector(), team.vector(), team.vector(), team.vector()];
+      v.set(randomVector(m.dim, 1));
+      vPrev.set(randomVector(m.dim, 2));
+      w.set(randomVector(m.dim, 3));
+      x.set(randomVector(m.dim, 4));
+      const copy = (a: Float64Array): Float64Array => Float64Array.from(a);
+      const [lv, lp, lw, lx] = [copy(v), copy(vPrev), copy(w), copy(x)];
+      // Sums differ only in the order the members add them: compare to rounding.
+      const [vw, vp] = team.sweeps!.dots(v, w, vPrev);
+      const [rvw, rvp] = localSweeps.dots(lv, lw, lp);
+      expect(Math.abs(vw - rvw)).toBeLessThan(1e-12 * m.dim);
+      expect(Math.abs(vp - rvp)).toBeLessThan(1e-12 * m.dim);
+      const ss = team.sweeps!.update(v, vPrev, w, 0.3, -0.7);
+      const rss = localSweeps.update(lv, lp, lw, 0.3, -0.7);
+      expect(Math.abs(ss - rss)).toBeLessThan(1e-12 * rss);
+      expect(maxDiff(w, lw)).toBe(0);
+      team.sweeps!.scale(w, 1.5);
+      localSweeps.scale(lw, 1.5);
+      expect(maxDiff(w, lw)).toBe(0);
+      team.sweeps!.replay(v, vPrev, w, x, 0.2, 0.4, 0.9, -1.1);
+      localSweeps.replay(lv, lp, lw, lx, 0.2, 0.4, 0.9, -1.1);
+      expect(maxDiff(w, lw)).toBe(0);
+      expect(maxDiff(x, lx)).toBe(0);
+    } finally {
+      team.close();
+    }
+  });
+
+  it('two-pass Lanczos on a team gives the lowest eigenvalue of the one-thread operator to 1e-10', () => {
+    const m = randomSymmetric(20000, 3, 61);
+    const plain = { dim: m.dim, complex: false, apply: (x: Float64Array, y: Float64Array) => applyStoredRows(m, x, y) };
+    const one = lanczos(plain, { eigs: 1, strategy: 'two-pass', tol: 1e-10, seed: 7 });
+    const team = new MatvecTeam({ kind: 'stored', complex: false, dim: m.dim, matrix: m }, 2);
+    try {
+      const two = lanczos(team, { eigs: 1, strategy: 'two-pass', tol: 1e-10, seed: 7 });
+      expect(two.converged).toBe(true);
+      expect(Math.abs(two.values[0]! - one.values[0]!)).toBeLessThan(1e-10 * Math.abs(one.values[0]!));
+    } finally {
+      team.close();
+    }
   });
 });
