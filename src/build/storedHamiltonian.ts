@@ -288,7 +288,27 @@ function valueCodes(pieces: UpperPiece[], complex: boolean): { codeOf: Uint16Arr
 export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0 = 0, r1 = m.dim): void {
   const { rowPtr, cols, diag } = m;
   if (!m.complex) {
-    if (m.codes) {
+    if (m.codes && rowPtr[m.dim]! < 2 ** 31) {
+      // Small integer entry indices (the common case): carried across rows as an int, one row
+      // start read per row; a lattice model's single off-diagonal value is factored out of the sum.
+      const codes = m.codes;
+      const table = m.table!;
+      let e = rowPtr[r0]! | 0;
+      if (table.length === 1) {
+        const v = table[0]!;
+        for (let r = r0; r < r1; r++) {
+          let s = 0;
+          for (const end = rowPtr[r + 1]! | 0; e < end; e++) s += x[cols[e]!]!;
+          y[r] = diag[r]! * x[r]! + v * s;
+        }
+      } else {
+        for (let r = r0; r < r1; r++) {
+          let s = diag[r]! * x[r]!;
+          for (const end = rowPtr[r + 1]! | 0; e < end; e++) s += table[codes[e]!]! * x[cols[e]!]!;
+          y[r] = s;
+        }
+      }
+    } else if (m.codes) {
       const codes = m.codes;
       const table = m.table!;
       for (let r = r0; r < r1; r++) {
