@@ -272,18 +272,24 @@ export function sectorReport(sector: Sector, qubits: number, minCount?: number, 
 /** The `top` most probable configurations of a (normalised) state over `basis`. */
 export function topConfigurations(basis: Basis, v: Float64Array, complex: boolean, top: number, qubit0: Qubit0 = 'right'): Array<{ bitstring: string; probability: number }> {
   const n = basis.dim;
-  const prob = new Float64Array(n);
-  for (let i = 0; i < n; i++) prob[i] = complex ? v[2 * i]! ** 2 + v[2 * i + 1]! ** 2 : v[i]! ** 2;
+  // Probabilities computed as needed (no D-long array at the end of a solve, where memory peaks).
+  const prob = (i: number): number => (complex ? v[2 * i]! ** 2 + v[2 * i + 1]! ** 2 : v[i]! ** 2);
   // Partial selection: keep a small sorted list rather than sorting all of D.
   const best: number[] = [];
+  const bestProb: number[] = [];
   for (let i = 0; i < n; i++) {
-    if (best.length === top && prob[i]! <= prob[best[best.length - 1]!]!) continue;
+    const p = prob(i);
+    if (best.length === top && p <= bestProb[bestProb.length - 1]!) continue;
     let at = best.length;
-    while (at > 0 && prob[best[at - 1]!]! < prob[i]!) at--;
+    while (at > 0 && bestProb[at - 1]! < p) at--;
     best.splice(at, 0, i);
-    if (best.length > top) best.pop();
+    bestProb.splice(at, 0, p);
+    if (best.length > top) {
+      best.pop();
+      bestProb.pop();
+    }
   }
-  return best.map((i) => ({ bitstring: formatBitstring(basis.states, i * basis.nWords, basis.qubits, qubit0), probability: prob[i]! }));
+  return best.map((i, k) => ({ bitstring: formatBitstring(basis.states, i * basis.nWords, basis.qubits, qubit0), probability: bestProb[k]! }));
 }
 
 /** Dimension from which a solve collects garbage between stages (a collection costs a few milliseconds). */

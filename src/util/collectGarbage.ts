@@ -7,5 +7,9 @@
  * `node --expose-gc`) this does nothing.
  */
 export function collectGarbage(): void {
-  (globalThis as { gc?: () => void }).gc?.();
+  const gc = (globalThis as { gc?: () => void }).gc;
+  // Dropped backing stores are freed by a concurrent sweeper after a collection; a second
+  // collection first waits for that sweep, so the pages are back before the caller allocates.
+  gc?.();
+  gc?.();
 }
