@@ -18,6 +18,8 @@ export interface SharedChunks {
   upperPerRow: number;
   step: number;
   progress: Int32Array;
+  /** The whole diagonal (shared): pieces write theirs into it, so assembly reuses it without a copy. */
+  diag?: Float64Array;
 }
 
 /** Take chunks until none are left; each piece on SharedArrayBuffers, so it returns without a copy. */
@@ -28,7 +30,7 @@ export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): Uppe
     const r0 = Atomics.add(work.progress, 0, 1) * work.step;
     if (r0 >= dim) break;
     const r1 = Math.min(dim, r0 + work.step);
-    pieces.push(buildUpperRows(work.basis, work.plan, r0, r1, { upperPerRow: work.upperPerRow, shared: true }));
+    pieces.push(buildUpperRows(work.basis, work.plan, r0, r1, { upperPerRow: work.upperPerRow, shared: true, diag: work.diag }));
     Atomics.add(work.progress, 1, r1 - r0);
   }
   return pieces;
@@ -73,6 +75,8 @@ export async function buildProjectedHamiltonianParallel(
     // Many chunks per thread, so the last ones even out a late-starting worker.
     step: Math.ceil(basis.dim / Math.min(256, threads * 32)),
     progress: new Int32Array(new SharedArrayBuffer(8)),
+    // Basis order: the stored matrix keeps this diagonal as it is (see storedFromPieces).
+    diag: opts.locality ? undefined : new Float64Array(new SharedArrayBuffer(8 * Math.max(1, (plan.complex ? 2 : 1) * basis.dim))),
   };
   const workers = takeSolveWorkers(threads - 1);
   const helpers = workers.map(

@@ -80,6 +80,8 @@ export interface BuildRowsOptions {
   upperPerRow?: number;
   /** Put the arrays on SharedArrayBuffers (built on a worker thread, read by the caller). */
   shared?: boolean;
+  /** The whole matrix's diagonal: the piece writes its rows there and its `diag` is a view of them. */
+  diag?: Float64Array;
 }
 
 /**
@@ -95,7 +97,7 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   let cap = Math.max(64, Math.ceil(rows * (opts.upperPerRow ?? 4) * 1.25) + 64);
   let cols = new Int32Array(alloc(cap * 4));
   let values = new Float64Array(alloc(w * cap * 8));
-  const diag = new Float64Array(alloc(w * rows * 8));
+  const diag = opts.diag ? opts.diag.subarray(w * r0, w * r1) : new Float64Array(alloc(w * rows * 8));
   const rowEnd = new Int32Array(alloc(rows * 4));
   const s = rowScratch(plan);
   const tables = scanTables(plan);

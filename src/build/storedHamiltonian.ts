@@ -61,11 +61,13 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
   if (order) return storedInOrder(dim, complex, pieces, order, shared);
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
   const w = complex ? 2 : 1;
-  const diag = new Float64Array(alloc(w * dim * 8));
+  // Pieces that wrote into one whole diagonal (see BuildRowsOptions.diag) hand it over as it is.
+  const whole = wholeDiagonal(pieces, w, dim, shared);
+  const diag = whole ?? new Float64Array(alloc(w * dim * 8));
   const lower = new Int32Array(dim);
   let upper = 0;
   for (const p of pieces) {
-    diag.set(p.diag, w * p.r0);
+    if (!whole) diag.set(p.diag, w * p.r0);
     for (let e = 0; e < p.cols.length; e++) lower[p.cols[e]!]!++;
     upper += p.cols.length;
   }
@@ -214,6 +216,18 @@ function sortByColumn(cols: Int32Array, codes: Uint8Array | Uint16Array | undefi
       if (w === 2) values![w * (j + 1) + 1] = v1;
     }
   }
+}
+
+/** The diagonal the pieces' `diag` views share, when they cover [0, dim) of one buffer in place; else undefined. */
+function wholeDiagonal(pieces: UpperPiece[], w: number, dim: number, shared: boolean): Float64Array | undefined {
+  const buffer = pieces[0]?.diag.buffer;
+  if (!buffer || buffer instanceof SharedArrayBuffer !== shared || buffer.byteLength < w * dim * 8) return undefined;
+  let rows = 0;
+  for (const p of pieces) {
+    if (p.diag.buffer !== buffer || p.diag.byteOffset !== w * p.r0 * 8 || p.diag.length !== w * (p.r1 - p.r0)) return undefined;
+    rows += p.r1 - p.r0;
+  }
+  return rows === dim ? new Float64Array(buffer, 0, w * dim) : undefined;
 }
 
 /**
