@@ -12,8 +12,8 @@ export interface TwoPassOptions {
   start?: Float64Array;
   /**
    * Lanczos vectors pass 1 may keep (default 0): when the run converges within them the Ritz
-   * vector is formed from the kept ones and pass 2 is skipped. For expensive products (matrix-free)
-   * with memory to spare, this halves the products.
+   * vector is formed from the kept ones and pass 2 is skipped, else pass 2 replays only the steps
+   * after them. For expensive products (matrix-free) with memory to spare, this halves the products.
    */
   keepVectors?: number;
   onProgress?: (info: { matvecs: number; residual: number; energy: number }) => void;
@@ -92,11 +92,20 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
     for (let j = 0; j < steps; j++) axpy(y[j]!, 0, kept[j]!, x, false);
     kept.length = 0;
   } else {
+    // Pass 2: replay the recurrence with the same coefficients and accumulate x = Σ y_j v_j,
+    // starting after the kept vectors (the last two kept ones restart the recurrence).
+    let from = 0;
+    if (kept.length >= 2) {
+      from = kept.length - 1;
+      for (let j = 0; j < from; j++) axpy(y[j]!, 0, kept[j]!, x, false);
+      vPrev.set(kept[from - 1]!);
+      v.set(kept[from]!);
+    } else {
+      vPrev.fill(0);
+      writeStart(v);
+    }
     kept.length = 0;
-    // Pass 2: replay the recurrence with the same coefficients and accumulate x = Σ y_j v_j.
-    vPrev.fill(0);
-    writeStart(v);
-    for (let j = 0; j < steps; j++) {
+    for (let j = from; j < steps; j++) {
       if (j + 1 === steps) {
         axpy(y[j]!, 0, v, x, false);
         break;
