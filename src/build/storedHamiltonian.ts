@@ -86,9 +86,7 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
   }
   rowPtr[dim] = at;
   const cols = new Int32Array(alloc(nnz * 4));
-  const bytesPerCode = coding ? (coding.count <= 256 ? 1 : 2) : 0;
-  const codes = coding ? (bytesPerCode === 1 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2))) : undefined;
-  const values = coding ? undefined : new Float64Array(alloc(w * nnz * 8));
+  const { codes, values } = entryValues(coding, nnz, w, alloc);
   let codeAt = 0;
   for (const p of pieces) {
     let e = 0;
@@ -96,23 +94,7 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
       let pos = rowPtr[r]! + lower[r]!;
       for (const end = p.rowEnd[r - p.r0]!; e < end; e++, pos++) {
         const c = p.cols[e]!;
-        const lp = lowerPos[c]!++;
-        cols[pos] = c;
-        cols[lp] = r;
-        if (codes) {
-          // The lower entry is the conjugate: its code is the upper code's partner.
-          const code = coding!.codeOf[codeAt++]!;
-          codes[pos] = code;
-          codes[lp] = coding!.conjugate[code]!;
-        } else if (complex) {
-          values![2 * pos] = p.values[2 * e]!;
-          values![2 * pos + 1] = p.values[2 * e + 1]!;
-          values![2 * lp] = p.values[2 * e]!;
-          values![2 * lp + 1] = -p.values[2 * e + 1]!;
-        } else {
-          values![pos] = p.values[e]!;
-          values![lp] = p.values[e]!;
-        }
+        placePair(cols, codes, values, coding?.conjugate, complex, codes ? coding!.codeOf[codeAt++]! : 0, p.values, e, pos, c, lowerPos[c]!++, r);
       }
     }
   }
@@ -158,9 +140,7 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
     rowPtr[i + 1] = at;
     at += count[take[i]!]!;
   }
-  const bytesPerCode = coding ? (coding.count <= 256 ? 1 : 2) : 0;
-  const codes = coding ? (bytesPerCode === 1 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2))) : undefined;
-  const values = coding ? undefined : new Float64Array(alloc(w * nnz * 8));
+  const { codes, values } = entryValues(coding, nnz, w, alloc);
   let codeAt = 0;
   for (const p of pieces) {
     let e = 0;
@@ -168,23 +148,7 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
       const i = posOf[r]!;
       for (const end = p.rowEnd[r - p.r0]!; e < end; e++) {
         const j = posOf[p.cols[e]!]!;
-        const pos = rowPtr[i + 1]!++;
-        const lp = rowPtr[j + 1]!++;
-        cols[pos] = j;
-        cols[lp] = i;
-        if (codes) {
-          const code = coding!.codeOf[codeAt++]!;
-          codes[pos] = code;
-          codes[lp] = coding!.conjugate[code]!;
-        } else if (complex) {
-          values![2 * pos] = p.values[2 * e]!;
-          values![2 * pos + 1] = p.values[2 * e + 1]!;
-          values![2 * lp] = p.values[2 * e]!;
-          values![2 * lp + 1] = -p.values[2 * e + 1]!;
-        } else {
-          values![pos] = p.values[e]!;
-          values![lp] = p.values[e]!;
-        }
+        placePair(cols, codes, values, coding?.conjugate, complex, codes ? coding!.codeOf[codeAt++]! : 0, p.values, e, rowPtr[i + 1]!++, j, rowPtr[j + 1]!++, i);
       }
     }
   }
@@ -215,6 +179,46 @@ function sortByColumn(cols: Int32Array, codes: Uint8Array | Uint16Array | undefi
       values![w * (j + 1)] = v0;
       if (w === 2) values![w * (j + 1) + 1] = v1;
     }
+  }
+}
+
+/** The entries' value storage: 8- or 16-bit codes when the values were coded, else doubles. */
+function entryValues(coding: { count: number } | undefined, nnz: number, w: number, alloc: (bytes: number) => ArrayBufferLike): { codes?: Uint8Array | Uint16Array; values?: Float64Array } {
+  if (!coding) return { values: new Float64Array(alloc(w * nnz * 8)) };
+  return { codes: coding.count <= 256 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2)) };
+}
+
+/**
+ * Upper entry e of a piece (values pv) at position pos in column col, and its mirror (the conjugate)
+ * at position lp in column row: coded (the mirror gets the code's conjugate partner) or plain.
+ */
+function placePair(
+  cols: Int32Array,
+  codes: Uint8Array | Uint16Array | undefined,
+  values: Float64Array | undefined,
+  conjugate: Uint16Array | undefined,
+  complex: boolean,
+  code: number,
+  pv: Float64Array,
+  e: number,
+  pos: number,
+  col: number,
+  lp: number,
+  row: number,
+): void {
+  cols[pos] = col;
+  cols[lp] = row;
+  if (codes) {
+    codes[pos] = code;
+    codes[lp] = conjugate![code]!;
+  } else if (complex) {
+    values![2 * pos] = pv[2 * e]!;
+    values![2 * pos + 1] = pv[2 * e + 1]!;
+    values![2 * lp] = pv[2 * e]!;
+    values![2 * lp + 1] = -pv[2 * e + 1]!;
+  } else {
+    values![pos] = pv[e]!;
+    values![lp] = pv[e]!;
   }
 }
 
@@ -436,41 +440,41 @@ function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lo
     let e = 0;
     for (let r = p.r0; r < p.r1; r++) for (const end = p.rowEnd[r - p.r0]!; e < end; e++) lowAdj[lowEnd[p.cols[e]!]!++] = r;
   }
+  return breadthFirstOrder(dim, (r, visit) => {
+    for (let e = r === 0 ? 0 : lowEnd[r - 1]!, end = lowEnd[r]!; e < end; e++) visit(lowAdj[e]!);
+    // The piece holding row r: a binary search over the few pieces' first rows.
+    let lo = 0;
+    for (let hi = pieces.length - 1; lo < hi; ) {
+      const mid = (lo + hi + 1) >> 1;
+      if (pieces[mid]!.r0 <= r) lo = mid;
+      else hi = mid - 1;
+    }
+    while (pieces[lo]!.r1 <= r) lo--; // past empty pieces that start at r
+    const p = pieces[lo]!;
+    const i = r - p.r0;
+    for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!, end = p.rowEnd[i]!; e < end; e++) visit(p.cols[e]!);
+  });
+}
+
+/**
+ * Breadth-first order of a graph on `dim` vertices, each component from its lowest unvisited vertex;
+ * `neighbours(r, visit)` calls `visit` on every neighbour of r, in the order they are to be taken.
+ */
+function breadthFirstOrder(dim: number, neighbours: (r: number, visit: (c: number) => void) => void): StorageOrder {
   const take = new Int32Array(dim);
   const posOf = new Int32Array(dim).fill(-1);
   let head = 0;
   let tail = 0;
+  const visit = (c: number): void => {
+    if (posOf[c]! < 0) {
+      posOf[c] = tail;
+      take[tail++] = c;
+    }
+  };
   for (let s = 0; s < dim; s++) {
     if (posOf[s]! >= 0) continue;
-    posOf[s] = tail;
-    take[tail++] = s;
-    while (head < tail) {
-      const r = take[head++]!;
-      for (let e = r === 0 ? 0 : lowEnd[r - 1]!, end = lowEnd[r]!; e < end; e++) {
-        const c = lowAdj[e]!;
-        if (posOf[c]! < 0) {
-          posOf[c] = tail;
-          take[tail++] = c;
-        }
-      }
-      // The piece holding row r: a binary search over the few pieces' first rows.
-      let lo = 0;
-      for (let hi = pieces.length - 1; lo < hi; ) {
-        const mid = (lo + hi + 1) >> 1;
-        if (pieces[mid]!.r0 <= r) lo = mid;
-        else hi = mid - 1;
-      }
-      while (pieces[lo]!.r1 <= r) lo--; // past empty pieces that start at r
-      const p = pieces[lo]!;
-      const i = r - p.r0;
-      for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!, end = p.rowEnd[i]!; e < end; e++) {
-        const c = p.cols[e]!;
-        if (posOf[c]! < 0) {
-          posOf[c] = tail;
-          take[tail++] = c;
-        }
-      }
-    }
+    visit(s);
+    while (head < tail) neighbours(take[head++]!, visit);
   }
   return { take, posOf };
 }
@@ -484,25 +488,9 @@ function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lo
  */
 export function reorderForLocality(m: StoredHamiltonian, shared = false): StoredHamiltonian {
   const { dim, rowPtr, cols } = m;
-  const take = new Int32Array(dim);
-  const posOf = new Int32Array(dim).fill(-1);
-  let head = 0;
-  let tail = 0;
-  for (let s = 0; s < dim; s++) {
-    if (posOf[s]! >= 0) continue;
-    posOf[s] = tail;
-    take[tail++] = s;
-    while (head < tail) {
-      const r = take[head++]!;
-      for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) {
-        const c = cols[e]!;
-        if (posOf[c]! < 0) {
-          posOf[c] = tail;
-          take[tail++] = c;
-        }
-      }
-    }
-  }
+  const { take, posOf } = breadthFirstOrder(dim, (r, visit) => {
+    for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) visit(cols[e]!);
+  });
   // Compose with an earlier order: storage row i holds basis row order_old[take[i]].
   const order = m.order ? Int32Array.from(take, (r) => m.order![r]!) : take;
   return permuteStored(m, take, posOf, order, shared);
