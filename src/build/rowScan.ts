@@ -107,23 +107,15 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
         if (pair) {
           // (−1)^{a_q ⊕ a_q'} = 1 − 2·[a_q ≠ a_q']: the 1 goes to the constant.
           const re = groups.phaseRe[t]!;
-          const low = pair.low >>> 5;
-          const high = pair.high >>> 5;
-          const shift = (pair.high & 31) - (pair.low & 31);
-          const key = `${low},${high},${shift},${re}`;
+          const at = wordPair(pair);
+          const key = `${at.low},${at.high},${at.shift},${re}`;
           let pool = pools.get(key);
-          if (!pool) pools.set(key, (pool = { low, high, shift, mask: 0, re }));
+          if (!pool) pools.set(key, (pool = { ...at, mask: 0, re }));
           pool.mask = (pool.mask | (1 << (pair.low & 31))) >>> 0;
           constant += re;
           continue;
         }
-        for (let k = 0; k < nWords; k++) {
-          const z = groups.zMasks[t * nWords + k]!;
-          if (z !== 0) {
-            diagWord.push(k);
-            diagMask.push(z);
-          }
-        }
+        pushNonzeroWords(groups.zMasks, t * nWords, nWords, diagWord, diagMask);
         diagStart.push(diagWord.length);
         diagRe.push(groups.phaseRe[t]!);
         diagIm.push(groups.phaseIm[t]!);
@@ -132,19 +124,14 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
     }
     if (test.groupAllowed[g] === 0) continue;
     off.push(g);
-    for (let k = 0; k < nWords; k++) {
-      const m = groups.flipMasks[g * nWords + k]!;
-      if (m !== 0) {
-        flipWord.push(k);
-        flipMask.push(m);
-      }
-    }
+    pushNonzeroWords(groups.flipMasks, g * nWords, nWords, flipWord, flipMask);
     flipStart.push(flipWord.length);
     const pair = twoQubitFlip(groups.flipMasks, g * nWords, nWords, test, g);
     if (pair) {
-      const key = `${pair.low >>> 5},${pair.high >>> 5},${(pair.high & 31) - (pair.low & 31)},${pair.free}`;
+      const at = wordPair(pair);
+      const key = `${at.low},${at.high},${at.shift},${pair.free}`;
       let pool = flipPools.get(key);
-      if (!pool) flipPools.set(key, (pool = { low: pair.low >>> 5, high: pair.high >>> 5, shift: (pair.high & 31) - (pair.low & 31), mask: 0, free: pair.free, groups: new Int32Array(32) }));
+      if (!pool) flipPools.set(key, (pool = { ...at, mask: 0, free: pair.free, groups: new Int32Array(32) }));
       pool.mask = (pool.mask | (1 << (pair.low & 31))) >>> 0;
       pool.groups[pair.low & 31] = off.length - 1;
     } else generalGroups.push(off.length - 1);
@@ -155,13 +142,7 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
       const weight = test.flipWeight[g * nc + c]!;
       // A constraint the flip does not touch always holds.
       if (weight === 0) continue;
-      for (let k = 0; k < nWords; k++) {
-        const m = test.flipMasked[(g * nc + c) * nWords + k]!;
-        if (m !== 0) {
-          unitWord.push(k);
-          unitMask.push(m);
-        }
-      }
+      pushNonzeroWords(test.flipMasked, (g * nc + c) * nWords, nWords, unitWord, unitMask);
       unitStart.push(unitWord.length);
       unitHalf.push(weight / 2);
     }
@@ -211,6 +192,22 @@ export function rowScanPlan(groups: FlipGroups, test: SectorFlipTest): RowScanPl
     phaseRe: groups.phaseRe,
     phaseIm: groups.phaseIm,
   };
+}
+
+/** Append the nonzero words of masks[off..off+nWords) to words (their index) and out (the word). */
+function pushNonzeroWords(masks: Uint32Array, off: number, nWords: number, words: number[], out: number[]): void {
+  for (let k = 0; k < nWords; k++) {
+    const m = masks[off + k]!;
+    if (m !== 0) {
+      words.push(k);
+      out.push(m);
+    }
+  }
+}
+
+/** A qubit pair as a pool locates it: the words of its low and high qubit and their bit distance. */
+function wordPair(pair: { low: number; high: number }): { low: number; high: number; shift: number } {
+  return { low: pair.low >>> 5, high: pair.high >>> 5, shift: (pair.high & 31) - (pair.low & 31) };
 }
 
 /** The two qubits (low, high) of a mask that has exactly two, else undefined. */
