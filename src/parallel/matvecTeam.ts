@@ -11,7 +11,8 @@ import { closeSolveWorkers, releaseSolveWorkers, startSolveWorkers, takeSolveWor
  * What every team member needs, all on SharedArrayBuffers: the operator (a stored matrix, or the
  * basis and row-scan plan for matrix-free products), the team's vectors (two staging vectors for
  * callers' own arrays, then the ones handed out by `vector()`), one output vector per member for
- * matrix-free products (whose mirrored updates cross row ranges), and the row split.
+ * matrix-free products (whose mirrored updates cross row ranges), the row split of products and the
+ * element split of vector sweeps, and the control, scalar and partial-sum slots of a task.
  */
 export interface TeamSpec {
   kind: 'stored' | 'free';
@@ -100,9 +101,9 @@ export function closeMatvecWorkers(): void {
 
 /**
  * A synchronous operator whose products run on `threads` threads (this one and threads−1 workers)
- * over shared memory, woken through Atomics, so Lanczos stays a plain loop. Vectors from
- * `vector()` are applied in place; other arrays are copied through staging vectors, made when
- * first needed. Close it when done.
+ * over shared memory, woken through Atomics, so Lanczos stays a plain loop; its `sweeps` split
+ * the Lanczos vector updates over the same threads. Vectors from `vector()` are applied in place;
+ * other arrays are copied through staging vectors, made when first needed. Close it when done.
  */
 export class MatvecTeam implements LinearOperator {
   readonly dim: number;
