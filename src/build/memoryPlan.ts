@@ -66,7 +66,7 @@ export function planMemory(basis: Basis, scan: RowScanPlan, opts: { budgetBytes?
   // Stored (see storedHamiltonian.ts): both off-diagonal triangles with 32-bit columns, valued as
   // doubles in case the values are too varied for codes, the diagonal and the row starts; twice,
   // for the copy renumbered for locality, or once plus the upper-triangle pieces it is assembled from.
-  const storedBytes = 2 * upperEstimate * (4 + 8 * c) + dim * 8 * c + (dim + 1) * 8;
+  const storedBytes = 2 * upperEstimate * (4 + 8 * c) + dim * 8 * c + (dim + 1) * (2 * upperEstimate < 2 ** 31 ? 4 : 8);
   const matrixBytes = storedBytes + Math.max(storedBytes, upperEstimate * (4 + 8 * c) + dim * 8 * c);
   const vectorBytes = dim * 8 * c;
   const threads = Math.max(1, opts.threads ?? 1);

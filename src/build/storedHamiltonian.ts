@@ -13,8 +13,8 @@ export interface StoredHamiltonian {
   complex: boolean;
   /** Diagonal (re, im interleaved when complex). */
   diag: Float64Array;
-  /** Off-diagonal row starts (a double: the count may pass 2^31). */
-  rowPtr: Float64Array;
+  /** Off-diagonal row starts: 32-bit while the entries fit, doubles past 2^31 entries (see `rowStarts`). */
+  rowPtr: Float64Array | Int32Array;
   cols: Int32Array;
   /** Value codes into `table`, or undefined when `values` holds the entries. */
   codes?: Uint8Array | Uint16Array;
@@ -26,6 +26,11 @@ export interface StoredHamiltonian {
    * basis order. Products in storage order act on vectors permuted the same way.
    */
   order?: Int32Array;
+}
+
+/** Row-start array for `nnz` entries: 32-bit (half the bytes, and int loads in the product) while they fit. */
+function rowStarts(dim: number, nnz: number, alloc: (bytes: number) => ArrayBufferLike): Float64Array | Int32Array {
+  return nnz < 2 ** 31 ? new Int32Array(alloc(4 * (dim + 1))) : new Float64Array(alloc(8 * (dim + 1)));
 }
 
 /** Bytes of the stored arrays: what one product must stream at least, besides the vectors. */
@@ -73,7 +78,7 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
   }
   const coding = valueCodes(pieces, complex);
   const nnz = 2 * upper;
-  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
+  const rowPtr = rowStarts(dim, nnz, alloc);
   const lowerPos = new Float64Array(dim);
   let at = 0;
   for (const p of pieces) {
@@ -134,7 +139,7 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
   }
   const coding = valueCodes(pieces, complex);
   // rowPtr[i + 1] starts as row i's start and moves along as the row fills: it then ends the row.
-  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
+  const rowPtr = rowStarts(dim, nnz, alloc);
   let at = 0;
   for (let i = 0; i < dim; i++) {
     rowPtr[i + 1] = at;
@@ -375,7 +380,7 @@ function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array
   const { dim, complex } = m;
   const w = complex ? 2 : 1;
   const nnz = m.rowPtr[dim]!;
-  const rowPtr = new Float64Array(alloc((dim + 1) * 8));
+  const rowPtr = rowStarts(dim, nnz, alloc);
   const cols = new Int32Array(alloc(nnz * 4));
   const diag = new Float64Array(alloc(w * dim * 8));
   const codes = m.codes ? (m.codes instanceof Uint8Array ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(2 * nnz))) : undefined;
