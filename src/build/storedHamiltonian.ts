@@ -16,7 +16,10 @@ export interface StoredHamiltonian {
   /** Off-diagonal row starts: 32-bit while the entries fit, doubles past 2^31 entries (see `rowStarts`). */
   rowPtr: Float64Array | Int32Array;
   cols: Int32Array;
-  /** Value codes into `table`, or undefined when `values` holds the entries. */
+  /**
+   * Value codes into `table`, or undefined when `values` holds the entries; when both are undefined
+   * every off-diagonal entry is table[0] (a real one-value matrix, e.g. a lattice model's hopping).
+   */
   codes?: Uint8Array | Uint16Array;
   /** Distinct values (re, im pairs when complex). */
   table?: Float64Array;
@@ -175,21 +178,23 @@ function sortByColumn(cols: Int32Array, codes: Uint8Array | Uint16Array | undefi
     while (j >= start && cols[j]! > c) {
       cols[j + 1] = cols[j]!;
       if (codes) codes[j + 1] = codes[j]!;
-      else for (let k = 0; k < w; k++) values![w * (j + 1) + k] = values![w * j + k]!;
+      else if (values) for (let k = 0; k < w; k++) values[w * (j + 1) + k] = values[w * j + k]!;
       j--;
     }
     cols[j + 1] = c;
     if (codes) codes[j + 1] = code;
-    else {
-      values![w * (j + 1)] = v0;
-      if (w === 2) values![w * (j + 1) + 1] = v1;
+    else if (values) {
+      values[w * (j + 1)] = v0;
+      if (w === 2) values[w * (j + 1) + 1] = v1;
     }
   }
 }
 
-/** The entries' value storage: 8- or 16-bit codes when the values were coded, else doubles. */
+/** The entries' value storage: 8- or 16-bit codes when the values were coded, none for one real value, else doubles. */
 function entryValues(coding: { count: number } | undefined, nnz: number, w: number, alloc: (bytes: number) => ArrayBufferLike): { codes?: Uint8Array | Uint16Array; values?: Float64Array } {
   if (!coding) return { values: new Float64Array(alloc(w * nnz * 8)) };
+  // One real value: nothing per entry (a complex value and its conjugate are two codes).
+  if (coding.count === 1 && w === 1) return {};
   return { codes: coding.count <= 256 ? new Uint8Array(alloc(nnz)) : new Uint16Array(alloc(nnz * 2)) };
 }
 
@@ -216,6 +221,8 @@ function placePair(
   if (codes) {
     codes[pos] = code;
     codes[lp] = conjugate![code]!;
+  } else if (!values) {
+    // One-value matrix: the entry is table[0].
   } else if (complex) {
     values![2 * pos] = pv[2 * e]!;
     values![2 * pos + 1] = pv[2 * e + 1]!;
@@ -311,25 +318,25 @@ function valueCodes(pieces: UpperPiece[], complex: boolean): { codeOf: Uint16Arr
 export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0 = 0, r1 = m.dim): void {
   const { rowPtr, cols, diag } = m;
   if (!m.complex) {
-    if (m.codes && rowPtr[m.dim]! < 2 ** 31) {
-      // Small integer entry indices (the common case): carried across rows as an int, one row
-      // start read per row; a lattice model's single off-diagonal value is factored out of the sum.
+    // The entry index is carried across rows (one row start read a row); with 32-bit row starts it
+    // stays an int.
+    if (!m.codes && !m.values) {
+      // A one-value matrix (a lattice model's hopping): the value is factored out of each row's sum.
+      const v = m.table![0]!;
+      let e = rowPtr[r0]!;
+      for (let r = r0; r < r1; r++) {
+        let s = 0;
+        for (const end = rowPtr[r + 1]!; e < end; e++) s += x[cols[e]!]!;
+        y[r] = diag[r]! * x[r]! + v * s;
+      }
+    } else if (m.codes && rowPtr instanceof Int32Array) {
       const codes = m.codes;
       const table = m.table!;
-      let e = rowPtr[r0]! | 0;
-      if (table.length === 1) {
-        const v = table[0]!;
-        for (let r = r0; r < r1; r++) {
-          let s = 0;
-          for (const end = rowPtr[r + 1]! | 0; e < end; e++) s += x[cols[e]!]!;
-          y[r] = diag[r]! * x[r]! + v * s;
-        }
-      } else {
-        for (let r = r0; r < r1; r++) {
-          let s = diag[r]! * x[r]!;
-          for (const end = rowPtr[r + 1]! | 0; e < end; e++) s += table[codes[e]!]! * x[cols[e]!]!;
-          y[r] = s;
-        }
+      let e = rowPtr[r0]!;
+      for (let r = r0; r < r1; r++) {
+        let s = diag[r]! * x[r]!;
+        for (const end = rowPtr[r + 1]!; e < end; e++) s += table[codes[e]!]! * x[cols[e]!]!;
+        y[r] = s;
       }
     } else if (m.codes) {
       const codes = m.codes;
@@ -350,7 +357,7 @@ export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float6
     return;
   }
   // Complex: entries as (re, im) pairs, from the table or the values.
-  const pairs = m.codes ? m.table! : m.values!;
+  const pairs = m.values ?? m.table!;
   const codes = m.codes;
   for (let r = r0; r < r1; r++) {
     const d = diag[2 * r]!;
@@ -398,20 +405,19 @@ function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array
       while (j > start && cols[j - 1]! > c) {
         cols[j] = cols[j - 1]!;
         if (codes) codes[j] = codes[j - 1]!;
-        else for (let k = 0; k < w; k++) values![w * j + k] = values![w * (j - 1) + k]!;
+        else if (values) for (let k = 0; k < w; k++) values[w * j + k] = values[w * (j - 1) + k]!;
         j--;
       }
       cols[j] = c;
       if (codes) codes[j] = m.codes![e]!;
-      else for (let k = 0; k < w; k++) values![w * j + k] = m.values![w * e + k]!;
+      else if (values) for (let k = 0; k < w; k++) values[w * j + k] = m.values![w * e + k]!;
     }
   }
   rowPtr[dim] = at;
   const out: StoredHamiltonian = { dim, complex, diag, rowPtr, cols };
-  if (codes) {
-    out.codes = codes;
-    out.table = m.table!;
-  } else out.values = values!;
+  if (m.table) out.table = m.table;
+  if (codes) out.codes = codes;
+  else if (values) out.values = values;
   if (order) out.order = order;
   return out;
 }
@@ -568,7 +574,7 @@ export function toSparseMatrix(stored: StoredHamiltonian): SparseMatrix {
   rowPtr[dim] = at;
   const cols = new Int32Array(at);
   const values = new Float64Array(w * at);
-  const pairs = m.codes ? m.table! : m.values!;
+  const pairs = m.values ?? m.table!;
   for (let r = 0; r < dim; r++) {
     let pos = rowPtr[r]!;
     let diagDone = !hasDiag(r);
@@ -581,7 +587,7 @@ export function toSparseMatrix(stored: StoredHamiltonian): SparseMatrix {
         diagDone = true;
       }
       if (e === m.rowPtr[r + 1]!) break;
-      const v = m.codes ? m.codes[e]! : e;
+      const v = m.codes ? m.codes[e]! : m.values ? e : 0;
       cols[pos] = m.cols[e]!;
       for (let k = 0; k < w; k++) values[w * pos + k] = pairs[w * v + k]!;
       pos++;

@@ -61,7 +61,7 @@ function denseOf(dim: number, complex: boolean, pieces: UpperPiece[]): { re: Flo
 describe('storedHamiltonian', () => {
   it('storedFromPieces and toSparseMatrix give the Hermitian completion, coded or plain', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 30 }), fc.boolean(), fc.integer({ min: 1, max: 1e6 }), fc.constantFrom(0, 3, 300), (dim, complex, seed, levels) => {
+      fc.property(fc.integer({ min: 1, max: 30 }), fc.boolean(), fc.integer({ min: 1, max: 1e6 }), fc.constantFrom(0, 1, 3, 300), (dim, complex, seed, levels) => {
         const pieces = randomPieces(dim, complex, seed, levels, 0.3);
         const stored = storedFromPieces(dim, complex, pieces);
         const want = denseOf(dim, complex, pieces);
@@ -72,7 +72,9 @@ describe('storedHamiltonian', () => {
         // Zero diagonals are not counted, as in the CSR form.
         expect(storedNonzeros(stored)).toBe(toSparseMatrix(stored).rowPtr[dim]);
         // Integer levels give few distinct values: codes (1 byte up to 256 values).
-        if (levels === 3) expect(stored.codes).toBeInstanceOf(Uint8Array);
+        if (levels === 3 && (complex || stored.table!.length > 1)) expect(stored.codes).toBeInstanceOf(Uint8Array);
+        // One real value (levels 1): nothing is stored per entry, the table holds it.
+        if (levels === 1 && !complex && stored.rowPtr[dim]! > 0) expect([stored.codes, stored.values, stored.table?.length]).toEqual([undefined, undefined, 1]);
       }),
       { numRuns: 120, seed: 7 },
     );
