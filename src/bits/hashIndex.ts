@@ -77,19 +77,28 @@ export function lookupConfig(
 /** Like `lookupConfig` but with the hash already computed. */
 export function lookupConfigHashed(states: Uint32Array, slots: Int32Array, nWords: number, query: Uint32Array, qOffset: number, h: number): number {
   const mask = slots.length - 1;
-  const { indexBits, indexMask, fingerprintShift } = slotLayout(slots);
-  const fp = fingerprintOf(h, fingerprintShift);
+  const layout = slotLayout(slots);
+  const fp = fingerprintOf(h, layout.fingerprintShift);
   let s = h & mask;
   for (;;) {
     const v = slots[s]!;
     if (v === -1) return -1;
-    if (v >>> indexBits === fp) {
-      const idx = v & indexMask;
-      const base = idx * nWords;
-      let k = 0;
-      while (k < nWords && states[base + k] === query[qOffset + k]) k++;
-      if (k === nWords) return idx;
-    }
+    const idx = slotHolds(states, nWords, v, layout, fp, query, qOffset);
+    if (idx >= 0) return idx;
     s = (s + 1) & mask;
   }
+}
+
+/**
+ * The basis index held by an occupied slot value `v` when it is the query's (fingerprint `fp`
+ * and every word equal), else −1: one probe step, shared by `lookupConfigHashed` and callers that
+ * batch their first probes.
+ */
+export function slotHolds(states: Uint32Array, nWords: number, v: number, layout: { indexBits: number; indexMask: number }, fp: number, query: Uint32Array, qOffset: number): number {
+  if (v >>> layout.indexBits !== fp) return -1;
+  const idx = v & layout.indexMask;
+  const base = idx * nWords;
+  let k = 0;
+  while (k < nWords && states[base + k] === query[qOffset + k]) k++;
+  return k === nWords ? idx : -1;
 }

@@ -1,6 +1,6 @@
 import type { Basis } from '../bits/basis.js';
 import { linearHash, linearHashTables } from '../bits/configFilter.js';
-import { fingerprintOf, hashConfig, lookupConfigHashed, slotLayout } from '../bits/hashIndex.js';
+import { fingerprintOf, hashConfig, lookupConfigHashed, slotHolds, slotLayout } from '../bits/hashIndex.js';
 import { popcount32 } from '../bits/packed.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { SectorFlipTest } from './projectedHamiltonian.js';
@@ -406,22 +406,13 @@ function lookUpSurvivors(plan: RowScanPlan, basis: Basis, r0: number, nSurv: num
     survHash[i] = h;
     survSlot[i] = slots[h & mask]!;
   }
-  const { indexBits, indexMask, fingerprintShift } = slotLayout(slots);
+  const layout = slotLayout(slots);
   for (let i = 0; i < nSurv; i++) {
     const v = survSlot[i]!;
     if (v === -1) continue;
-    const h = survHash[i]!;
+    const idx = slotHolds(states, nWords, v, layout, fingerprintOf(survHash[i]!, layout.fingerprintShift), survConfig, i * nWords);
     // −2: the first slot holds another configuration, so the probe walks on below.
-    let found = -2;
-    if (v >>> indexBits === fingerprintOf(h, fingerprintShift)) {
-      const idx = v & indexMask;
-      const base = idx * nWords;
-      const bOff = i * nWords;
-      let k = 0;
-      while (k < nWords && states[base + k] === survConfig[bOff + k]) k++;
-      if (k === nWords) found = idx;
-    }
-    survSlot[i] = found;
+    survSlot[i] = idx >= 0 ? idx : -2;
   }
   for (let i = 0; i < nSurv; i++) {
     if (survSlot[i] === -2) survSlot[i] = lookupConfigHashed(states, slots, nWords, survConfig, i * nWords, survHash[i]!);
