@@ -2,6 +2,7 @@ import { totalmem } from 'node:os';
 import { BitspanError } from '../errors.js';
 import type { Basis } from '../bits/basis.js';
 import { FILTER_ORDER_MIN_BYTES, upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
+import { rowStartBytes } from './storedHamiltonian.js';
 
 /** How H_S will be applied and what that costs, decided before anything large is allocated. */
 export interface MemoryPlan {
@@ -64,9 +65,10 @@ export function planMemory(basis: Basis, scan: RowScanPlan, opts: { budgetBytes?
   const nnz = 2 * upperEstimate + dim;
   const basisBytes = basis.states.byteLength + basis.slots.byteLength + basis.filter.byteLength + basis.counts.byteLength;
   // Stored (see storedHamiltonian.ts): both off-diagonal triangles with 32-bit columns, valued as
-  // doubles in case the values are too varied for codes, the diagonal and the row starts; twice,
-  // for the copy renumbered for locality, or once plus the upper-triangle pieces it is assembled from.
-  const storedBytes = 2 * upperEstimate * (4 + 8 * c) + dim * 8 * c + (dim + 1) * (2 * upperEstimate < 2 ** 31 ? 4 : 8);
+  // doubles in case the values are too varied for codes, the diagonal and the row starts; plus, at
+  // the assembly, the larger of the upper-triangle pieces and a second copy (what a library caller's
+  // `reorderForLocality` makes; the solver's own renumbering assembles straight from the pieces).
+  const storedBytes = 2 * upperEstimate * (4 + 8 * c) + dim * 8 * c + (dim + 1) * rowStartBytes(2 * upperEstimate);
   const matrixBytes = storedBytes + Math.max(storedBytes, upperEstimate * (4 + 8 * c) + dim * 8 * c);
   const vectorBytes = dim * 8 * c;
   const threads = Math.max(1, opts.threads ?? 1);

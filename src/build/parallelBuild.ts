@@ -5,7 +5,7 @@ import { buildUpperRows, type UpperPiece } from './projectedHamiltonian.js';
 import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
 
-/** Rows below which one thread is faster than shipping work to the pool. */
+/** Rows below which one thread is faster than shipping work to the solve workers. */
 export const MIN_ROWS_PARALLEL = 20000;
 
 /**

@@ -33,7 +33,12 @@ export interface StoredHamiltonian {
 
 /** Row-start array for `nnz` entries: 32-bit (half the bytes, and int loads in the product) while they fit. */
 function rowStarts(dim: number, nnz: number, alloc: (bytes: number) => ArrayBufferLike): Float64Array | Int32Array {
-  return nnz < 2 ** 31 ? new Int32Array(alloc(4 * (dim + 1))) : new Float64Array(alloc(8 * (dim + 1)));
+  return rowStartBytes(nnz) === 4 ? new Int32Array(alloc(4 * (dim + 1))) : new Float64Array(alloc(8 * (dim + 1)));
+}
+
+/** Bytes of one row start for a matrix of `nnz` stored entries (the memory plan sizes by this too). */
+export function rowStartBytes(nnz: number): 4 | 8 {
+  return nnz < 2 ** 31 ? 4 : 8;
 }
 
 /** Bytes of the stored arrays: what one product must stream at least, besides the vectors. */
@@ -329,7 +334,7 @@ export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float6
         for (const end = rowPtr[r + 1]!; e < end; e++) s += x[cols[e]!]!;
         y[r] = diag[r]! * x[r]! + v * s;
       }
-    } else if (m.codes && rowPtr instanceof Int32Array) {
+    } else if (m.codes) {
       const codes = m.codes;
       const table = m.table!;
       let e = rowPtr[r0]!;
@@ -338,19 +343,12 @@ export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float6
         for (const end = rowPtr[r + 1]!; e < end; e++) s += table[codes[e]!]! * x[cols[e]!]!;
         y[r] = s;
       }
-    } else if (m.codes) {
-      const codes = m.codes;
-      const table = m.table!;
-      for (let r = r0; r < r1; r++) {
-        let s = diag[r]! * x[r]!;
-        for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) s += table[codes[e]!]! * x[cols[e]!]!;
-        y[r] = s;
-      }
     } else {
       const values = m.values!;
+      let e = rowPtr[r0]!;
       for (let r = r0; r < r1; r++) {
         let s = diag[r]! * x[r]!;
-        for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) s += values[e]! * x[cols[e]!]!;
+        for (const end = rowPtr[r + 1]!; e < end; e++) s += values[e]! * x[cols[e]!]!;
         y[r] = s;
       }
     }

@@ -472,9 +472,7 @@ async function readAndSelect(
   if (threads > 1 && Math.min(distinct, opts.maxDim ?? Infinity) >= MIN_ROWS_PARALLEL) startMatvecWorkers(distinct, threads);
   const analysis = opts.analysis ? await resolveAnalysis(opts.analysis, hamiltonian, samples.qubits, sector, settings, timings) : undefined;
   const start = opts.startState ? { file: opts.startState, state: await readStartState(opts.startState, samples.qubits, opts.qubit0) } : undefined;
-  const t = performance.now();
-  const { basis: sampled, report } = selectSubspace(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: threads > 1 });
-  timings.filter = (performance.now() - t) / 1000;
+  const { basis: sampled, report } = selectTimed(samples, { sector, minCount: opts.minCount, maxDim: opts.maxDim }, threads, timings);
   return { sampled, report, samples: analysis ? samples : undefined, analysis, start };
 }
 
@@ -497,11 +495,16 @@ export interface SubspaceSolveOptions extends Omit<SolverSettings, 'start'> {
  * calls this for every point, so each point is exactly a solve. `timings` receives the stages.
  */
 export async function solveSamples(hamiltonian: PauliSum, samples: SampleSet, opts: SubspaceSolveOptions, timings: Record<string, number> = {}): Promise<SolveOutcome> {
-  const t = performance.now();
-  const threads = opts.threads ?? defaultThreads();
-  const { basis: sampled, report } = selectSubspace(samples, { sector: opts.sector, minCount: opts.minCount, maxDim: opts.maxDim, shared: threads > 1 });
-  timings.filter = (performance.now() - t) / 1000;
+  const { basis: sampled, report } = selectTimed(samples, opts, opts.threads ?? defaultThreads(), timings);
   return solveSelected(hamiltonian, sampled, report, opts, samples, timings);
+}
+
+/** `selectSubspace` (on shared memory when threads will read the basis), timed as the `filter` stage. */
+function selectTimed(samples: SampleSet, sel: { sector: Sector; minCount?: number; maxDim?: number }, threads: number, timings: Record<string, number>): { basis: Basis; report: SubspaceReport } {
+  const t = performance.now();
+  const selected = selectSubspace(samples, { sector: sel.sector, minCount: sel.minCount, maxDim: sel.maxDim, shared: threads > 1 });
+  timings.filter = (performance.now() - t) / 1000;
+  return selected;
 }
 
 /** Expand the selected subspace if asked, then `solveBasis`; `samples` only for the analysis that reads them. */

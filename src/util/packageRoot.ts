@@ -15,7 +15,7 @@ export function packageRoot(): string {
   throw new Error('cannot locate the bitspan package root');
 }
 
-/** Path of a compiled worker script, e.g. `workerScript('buildRows')` → <root>/dist/workers/buildRows.js. */
+/** Path of a compiled worker script, e.g. `workerScript('solveWorker')` → <root>/dist/workers/solveWorker.js. */
 export function workerScript(name: string): string {
   return join(packageRoot(), 'dist', 'workers', `${name}.js`);
 }
