@@ -40,8 +40,8 @@ export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): Uppe
  * Build H_S on this thread and threads−1 solve workers: the basis must sit on SharedArrayBuffers
  * (makeBasis with `shared`); every thread takes row chunks from a shared counter (several per
  * thread for balance), and the upper-triangle pieces are mirrored, in row order, into one stored
- * Hamiltonian. Identical output for any thread count. With `locality` the rows are stored in
- * breadth-first order (`localityOrder`), assembled so from the pieces: no basis-order copy is made.
+ * Hamiltonian. Identical output for any thread count. With `locality` or `lengths` the rows are
+ * stored renumbered (see the options), assembled so from the pieces: no basis-order copy is made.
  */
 export async function buildProjectedHamiltonianParallel(
   basis: Basis,
@@ -50,8 +50,10 @@ export async function buildProjectedHamiltonianParallel(
   opts: {
     /** Upper entries per row, when the caller has estimated them already (see `upperPerRowEstimate`). */
     upperPerRow?: number;
-    /** Store the rows renumbered for locality (as `reorderForLocality` would). */
+    /** Store the rows renumbered for locality, then sorted by length in windows (as `sortRowsByLength(reorderForLocality(m))` would). */
     locality?: boolean;
+    /** Store the rows in basis order sorted by length in windows (as `sortRowsByLength(m)` would); ignored with `locality`. */
+    lengths?: boolean;
     onProgress?: (rowsDone: number, rows: number) => void;
   } = {},
 ): Promise<StoredHamiltonian> {
@@ -59,7 +61,7 @@ export async function buildProjectedHamiltonianParallel(
   const shared = basis.states.buffer instanceof SharedArrayBuffer && basis.slots.buffer instanceof SharedArrayBuffer;
   // The pieces are dropped when this returns, before the caller allocates its solver vectors.
   const assemble = (pieces: UpperPiece[], sharedArrays: boolean): StoredHamiltonian =>
-    storedFromPieces(basis.dim, plan.complex, pieces, sharedArrays, opts.locality ? 'locality' : undefined);
+    storedFromPieces(basis.dim, plan.complex, pieces, sharedArrays, opts.locality ? 'locality' : opts.lengths ? 'lengths' : undefined);
   if (threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared) {
     const piece = buildUpperRows(basis, plan, 0, basis.dim);
     onProgress?.(basis.dim, basis.dim);
@@ -76,7 +78,7 @@ export async function buildProjectedHamiltonianParallel(
     step: Math.ceil(basis.dim / Math.min(256, threads * 32)),
     progress: new Int32Array(new SharedArrayBuffer(8)),
     // Basis order: the stored matrix keeps this diagonal as it is (see storedFromPieces).
-    diag: opts.locality ? undefined : new Float64Array(new SharedArrayBuffer(8 * Math.max(1, (plan.complex ? 2 : 1) * basis.dim))),
+    diag: opts.locality || opts.lengths ? undefined : new Float64Array(new SharedArrayBuffer(8 * Math.max(1, (plan.complex ? 2 : 1) * basis.dim))),
   };
   const workers = takeSolveWorkers(threads - 1);
   const helpers = workers.map(

@@ -4,7 +4,7 @@ import { makeBasis } from '../../src/bits/basis.js';
 import { buildProjectedHamiltonianParallel } from '../../src/build/parallelBuild.js';
 import { sectorFlipTest } from '../../src/build/projectedHamiltonian.js';
 import { rowScanPlan } from '../../src/build/rowScan.js';
-import { reorderForLocality, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
+import { LENGTH_WINDOW, reorderForLocality, sortRowsByLength, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
 import { readHamiltonian } from '../../src/io/readHamiltonian.js';
 import { readSamples } from '../../src/io/readSamples.js';
 import { selectSubspace } from '../../src/sectors/selectSubspace.js';
@@ -70,7 +70,7 @@ describe('buildProjectedHamiltonianParallel', () => {
     });
   }
 
-  it('a locality build (rows renumbered while assembling) is byte for byte reorderForLocality of the basis-order build, on 1, 2 and 4 threads (sampled Heisenberg torus)', async () => {
+  it('locality and lengths builds (rows renumbered while assembling) are byte for byte sortRowsByLength of reorderForLocality or of the basis-order build, on 1, 2 and 4 threads (sampled Heisenberg torus)', async () => {
     // 36-qubit Heisenberg torus, 26000 sampled configurations: the build goes to worker threads.
     const { writeBenchCase } = (await import(join(process.cwd(), 'dist/bench/cases.js'))) as typeof import('../../bench/cases.js');
     const { hamiltonian, samples } = writeBenchCase(tempDir('bitspan-locality-'), { side: 6, distinct: 26000, seed: 3 });
@@ -79,15 +79,26 @@ describe('buildProjectedHamiltonianParallel', () => {
     const { basis } = selectSubspace(await readSamples([samples]), { sector, shared: true });
     const groups = groupByFlipMask(h, basis.nWords);
     const plan = rowScanPlan(groups, sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords)));
-    const want = reorderForLocality(await buildProjectedHamiltonianParallel(basis, plan, 1));
+    const plain = await buildProjectedHamiltonianParallel(basis, plan, 1);
+    const bfs = reorderForLocality(plain);
     const bytes = (a: ArrayBufferView | undefined): Buffer | undefined => (a ? Buffer.from(a.buffer, a.byteOffset, a.byteLength) : undefined);
-    for (const threads of [1, 2, 4]) {
-      const got: StoredHamiltonian = await buildProjectedHamiltonianParallel(basis, plan, threads, { locality: true });
-      for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
-        const [g, w] = [bytes(got[key]), bytes(want[key])];
-        expect(g === undefined ? w === undefined : w !== undefined && g.equals(w), `${key}, ${threads} threads`).toBe(true);
+    for (const [opts, want] of [
+      [{ locality: true }, sortRowsByLength(bfs)],
+      [{ lengths: true }, sortRowsByLength(plain)],
+    ] as const) {
+      for (const threads of [1, 2, 4]) {
+        const got: StoredHamiltonian = await buildProjectedHamiltonianParallel(basis, plan, threads, opts);
+        for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
+          const [g, w] = [bytes(got[key]), bytes(want[key])];
+          expect(g === undefined ? w === undefined : w !== undefined && g.equals(w), `${key}, ${threads} threads, ${JSON.stringify(opts)}`).toBe(true);
+        }
+        // Rows ascend in length within each window of LENGTH_WINDOW storage rows (several windows here).
+        let descents = 0;
+        for (let i = 1; i < got.dim; i++) if (i % LENGTH_WINDOW !== 0 && got.rowPtr[i + 1]! - got.rowPtr[i]! < got.rowPtr[i]! - got.rowPtr[i - 1]!) descents++;
+        expect(descents).toBe(0);
       }
     }
+    const want = bfs;
     // Independently of reorderForLocality: in a breadth-first numbering every row after the first
     // of its component has a neighbour numbered before it, and these parents (each row's smallest
     // neighbour) never decrease along the order (standard property of BFS / Cuthill–McKee orders).

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { UpperPiece } from '../../src/build/projectedHamiltonian.js';
 import { toDense } from '../../src/build/sparseMatrix.js';
-import { applyStoredRows, localityOrder, permuteVector, reorderForLocality, storedFromPieces, storedNonzeros, toBasisOrderInPlace, toSparseMatrix } from '../../src/build/storedHamiltonian.js';
+import { applyStoredRows, lengthSorted, localityOrder, permuteVector, reorderForLocality, sortRowsByLength, storedFromPieces, storedNonzeros, toBasisOrderInPlace, toSparseMatrix, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
 import { seededUniform } from '../../src/util/random.js';
 
 /**
@@ -163,14 +163,26 @@ describe('reorderForLocality', () => {
         const pieces = randomPieces(dim, complex, seed, levels, density);
         const order = localityOrder(dim, pieces);
         const got = storedFromPieces(dim, complex, pieces, false, order);
-        const want = reorderForLocality(storedFromPieces(dim, complex, pieces));
-        // 'locality' finds the order inside the arrays it then fills.
-        for (const m of [got, storedFromPieces(dim, complex, pieces, false, 'locality')]) {
+        const plain = storedFromPieces(dim, complex, pieces);
+        const want = reorderForLocality(plain);
+        // 'locality' finds the order inside the arrays it then fills and sorts rows by length in
+        // windows; 'lengths' sorts basis order the same way.
+        const pairs: Array<[StoredHamiltonian, StoredHamiltonian]> = [
+          [got, want],
+          [storedFromPieces(dim, complex, pieces, false, 'locality'), sortRowsByLength(want)],
+          [storedFromPieces(dim, complex, pieces, false, 'lengths'), sortRowsByLength(plain)],
+        ];
+        for (const [m, ref] of pairs) {
           for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
-            const [g, w] = [m[key], want[key]];
+            const [g, w] = [m[key], ref[key]];
             expect(g === undefined ? undefined : Buffer.from(g.buffer, g.byteOffset, g.byteLength).toString('hex'), key).toEqual(w === undefined ? undefined : Buffer.from(w.buffer, w.byteOffset, w.byteLength).toString('hex'));
           }
         }
+        // Sorted by length (one window at these sizes), and still the same matrix.
+        const sorted = pairs[2]![0];
+        for (let i = 1; i < dim; i++) expect(sorted.rowPtr[i + 1]! - sorted.rowPtr[i]!).toBeGreaterThanOrEqual(sorted.rowPtr[i]! - sorted.rowPtr[i - 1]!);
+        const again = toDense(toSparseMatrix(sorted));
+        expect(Array.from(again.re, (v) => v + 0)).toEqual(Array.from(toDense(toSparseMatrix(plain)).re, (v) => v + 0));
         // Reference order written out from the definition: breadth-first search on the dense
         // matrix's graph, neighbours taken in ascending index, each unvisited row starting a tree.
         const dense = denseOf(dim, complex, pieces);
@@ -211,3 +223,78 @@ function hasEntry(pieces: UpperPiece[], r: number, c: number): boolean {
   }
   return false;
 }
+
+describe('product kernels on rows of equal and unequal length', () => {
+  /**
+   * A CSR matrix written by hand (not symmetric: the kernel does not care) with row lengths drawn
+   * so that runs of four equal rows and traps (four rows whose lengths sum to four times the first,
+   * e.g. 2, 0, 4, 2) both occur; checked against the definition y_r = d_r x_r + Σ_e v_e x_{c_e}.
+   */
+  it('applyStoredRows equals the row-by-row definition for one-value, coded and plain layouts, whatever the row lengths', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.constantFrom(0, 1, 2, 2, 2, 3, 4), { minLength: 1, maxLength: 40 }),
+        fc.integer({ min: 1, max: 1e6 }),
+        fc.constantFrom('one', 'coded', 'plain'),
+        fc.integer({ min: 0, max: 40 }),
+        (lengths, seed, layout, cut) => {
+          // The trap first, then the drawn lengths.
+          const lens = [2, 0, 4, 2, ...lengths];
+          const dim = lens.length;
+          const rng = seededUniform(seed);
+          const rowPtr = new Int32Array(dim + 1);
+          lens.forEach((l, r) => (rowPtr[r + 1] = rowPtr[r]! + l));
+          const nnz = rowPtr[dim]!;
+          const cols = Int32Array.from({ length: nnz }, () => Math.floor(rng.next() * dim));
+          const diag = Float64Array.from({ length: dim }, () => rng.next() - 0.5);
+          const table = Float64Array.from([-0.5, 1.25, 2]);
+          const codes = Uint8Array.from({ length: nnz }, () => Math.floor(rng.next() * 3));
+          const values = Float64Array.from({ length: nnz }, () => rng.next() - 0.5);
+          const m: StoredHamiltonian =
+            layout === 'one' ? { dim, complex: false, diag, rowPtr, cols, table: table.subarray(0, 1) } : layout === 'coded' ? { dim, complex: false, diag, rowPtr, cols, codes, table } : { dim, complex: false, diag, rowPtr, cols, values };
+          const valueOf = (e: number): number => (layout === 'one' ? table[0]! : layout === 'coded' ? table[codes[e]!]! : values[e]!);
+          const x = Float64Array.from({ length: dim }, () => rng.next() - 0.5);
+          const y = new Float64Array(dim);
+          // Any split into two ranges, as a team's members take them.
+          const split = Math.min(dim, cut);
+          applyStoredRows(m, x, y, 0, split);
+          applyStoredRows(m, x, y, split, dim);
+          for (let r = 0; r < dim; r++) {
+            let want = diag[r]! * x[r]!;
+            for (let e = rowPtr[r]!; e < rowPtr[r + 1]!; e++) want += valueOf(e) * x[cols[e]!]!;
+            expect(Math.abs(y[r]! - want)).toBeLessThan(1e-12);
+          }
+        },
+      ),
+      { numRuns: 200, seed: 31 },
+    );
+  });
+
+  it('lengthSorted sorts each window by length, stably, and keeps take and posOf inverse', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 6 }), { minLength: 1, maxLength: 60 }), fc.integer({ min: 1, max: 9 }), fc.integer({ min: 1, max: 1e6 }), (lengthList, windowRows, seed) => {
+        const dim = lengthList.length;
+        const lengthOf = Int32Array.from(lengthList);
+        // Start from a shuffled order, as a breadth-first renumbering would give.
+        const rng = seededUniform(seed);
+        const take = Int32Array.from({ length: dim }, (_, i) => i);
+        for (let i = dim - 1; i > 0; i--) {
+          const j = Math.floor(rng.next() * (i + 1));
+          [take[i], take[j]] = [take[j]!, take[i]!];
+        }
+        const before = Array.from(take);
+        const posOf = new Int32Array(dim);
+        take.forEach((r, i) => (posOf[r] = i));
+        lengthSorted(take, posOf, lengthOf, windowRows);
+        for (let w0 = 0; w0 < dim; w0 += windowRows) {
+          const window = before.slice(w0, w0 + windowRows);
+          // Stable sort by length of the same rows (Array.prototype.sort is stable since ES2019).
+          const want = [...window].sort((a, b) => lengthOf[a]! - lengthOf[b]!);
+          expect(Array.from(take.subarray(w0, w0 + windowRows))).toEqual(want);
+        }
+        for (let i = 0; i < dim; i++) expect(posOf[take[i]!]).toBe(i);
+      }),
+      { numRuns: 200, seed: 32 },
+    );
+  });
+});
