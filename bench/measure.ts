@@ -11,7 +11,7 @@ import { sectorFlipTest } from '../src/build/projectedHamiltonian.js';
 import { rowScanPlan } from '../src/build/rowScan.js';
 import { applyStoredRows, storedBytes } from '../src/build/storedHamiltonian.js';
 import { MatvecTeam } from '../src/parallel/matvecTeam.js';
-import { REORDER_MIN_DIM } from '../src/pipeline/solve.js';
+import { storedRowOrder } from '../src/pipeline/solve.js';
 import { closeSolveWorkers } from '../src/parallel/solveWorkers.js';
 
 /** a = b + s·c on 3 × 256 MiB arrays, best of 5 after a warm-up that faults the pages in. */
@@ -45,9 +45,8 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
   await build(2); // warm the pool and the JIT
   const build1 = Math.min(await build(1), await build(1));
   const build2 = Math.min(await build(2), await build(2));
-  // The matrix as the solver holds it: renumbered for locality from REORDER_MIN_DIM for one-thread
-  // products, in basis order for a team.
-  let m = await buildProjectedHamiltonianParallel(basis, plan, 2, { locality: basis.dim >= REORDER_MIN_DIM });
+  // The matrix as the solver holds it for one-thread products, then for a team's (storedRowOrder).
+  let m = await buildProjectedHamiltonianParallel(basis, plan, 2, storedRowOrder(basis.dim, plan.complex, false));
   const n = m.dim;
   const x = new Float64Array(n).fill(1);
   const y = new Float64Array(n);
@@ -64,7 +63,7 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
     return best;
   };
   const one = time(() => applyStoredRows(m, x, y));
-  if (m.order) m = await buildProjectedHamiltonianParallel(basis, plan, 2);
+  m = await buildProjectedHamiltonianParallel(basis, plan, 2, storedRowOrder(basis.dim, plan.complex, true));
   const team = new MatvecTeam({ kind: 'stored', complex: false, dim: n, matrix: m }, 2);
   // On the team's own shared vectors, as Lanczos applies it (an outside array is copied in and out).
   const tx = team.vector();

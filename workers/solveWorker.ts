@@ -4,6 +4,7 @@
 import { parentPort, receiveMessageOnPort } from 'node:worker_threads';
 import { buildTakenChunks } from '../src/build/parallelBuild.js';
 import { BitspanError } from '../src/errors.js';
+import { collectGarbage } from '../src/util/collectGarbage.js';
 import { runTeamTask, type MemberSpec } from '../src/parallel/matvecTeam.js';
 import type { BuildReply, SolveWorkerMessage } from '../src/parallel/solveWorkers.js';
 
@@ -37,4 +38,7 @@ parentPort!.on('message', (m: SolveWorkerMessage) => {
   }
   m.reply.postMessage(reply);
   m.reply.close();
+  // This isolate's handles on the pieces (and the basis) would otherwise keep their shared memory
+  // alive after the caller drops them: an idle member blocked in Atomics.wait never collects.
+  collectGarbage();
 });

@@ -22,7 +22,7 @@ export interface SharedChunks {
   diag?: Float64Array;
 }
 
-/** Take chunks until none are left; each piece on SharedArrayBuffers, so it returns without a copy. */
+/** Take chunks until none are left; each piece on SharedArrayBuffers, so it returns without a copy (a one-value piece keeps one value). */
 export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): UpperPiece[] {
   const pieces: UpperPiece[] = [];
   const dim = work.basis.dim;
@@ -30,7 +30,7 @@ export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): Uppe
     const r0 = Atomics.add(work.progress, 0, 1) * work.step;
     if (r0 >= dim) break;
     const r1 = Math.min(dim, r0 + work.step);
-    pieces.push(buildUpperRows(work.basis, work.plan, r0, r1, { upperPerRow: work.upperPerRow, shared: true, diag: work.diag }));
+    pieces.push(buildUpperRows(work.basis, work.plan, r0, r1, { upperPerRow: work.upperPerRow, shared: true, diag: work.diag, compactValues: true }));
     Atomics.add(work.progress, 1, r1 - r0);
   }
   return pieces;
@@ -62,24 +62,31 @@ export async function buildProjectedHamiltonianParallel(
   // The pieces are dropped when this returns, before the caller allocates its solver vectors.
   const assemble = (pieces: UpperPiece[], sharedArrays: boolean): StoredHamiltonian =>
     storedFromPieces(basis.dim, plan.complex, pieces, sharedArrays, opts.locality ? 'locality' : opts.lengths ? 'lengths' : undefined);
-  if (threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared) {
-    const piece = buildUpperRows(basis, plan, 0, basis.dim);
-    onProgress?.(basis.dim, basis.dim);
-    // A renumbered matrix goes on shared memory when the basis does, as reorderForLocality put it.
-    return assemble([piece], opts.locality === true && shared);
-  }
-  // Only the shared arrays travel; `counts` stays on this thread.
-  const view: Basis = { qubits: basis.qubits, nWords: basis.nWords, dim: basis.dim, states: basis.states, slots: basis.slots, filter: basis.filter, counts: new Float64Array(0) };
+  const single = threads <= 1 || basis.dim < MIN_ROWS_PARALLEL || !shared;
+  const renumbered = opts.locality === true || opts.lengths === true;
+  const w = plan.complex ? 2 : 1;
   const work: SharedChunks = {
-    basis: view,
+    // Only the shared arrays travel; `counts` stays on this thread.
+    basis: single ? basis : { qubits: basis.qubits, nWords: basis.nWords, dim: basis.dim, states: basis.states, slots: basis.slots, filter: basis.filter, counts: new Float64Array(0) },
     plan,
     upperPerRow: opts.upperPerRow ?? upperPerRowEstimate(basis, plan),
-    // Many chunks per thread, so the last ones even out a late-starting worker.
+    // Many chunks per thread, so the last ones even out a late-starting worker (and on one thread,
+    // pieces of bounded size).
     step: Math.ceil(basis.dim / Math.min(256, threads * 32)),
     progress: new Int32Array(new SharedArrayBuffer(8)),
     // Basis order: the stored matrix keeps this diagonal as it is (see storedFromPieces).
-    diag: opts.locality || opts.lengths ? undefined : new Float64Array(new SharedArrayBuffer(8 * Math.max(1, (plan.complex ? 2 : 1) * basis.dim))),
+    diag: renumbered ? undefined : single ? new Float64Array(w * basis.dim) : new Float64Array(new SharedArrayBuffer(8 * Math.max(1, w * basis.dim))),
   };
+  if (single) {
+    const pieces: UpperPiece[] = [];
+    for (let got = buildTakenChunks(work, 1); got.length > 0; got = buildTakenChunks(work, 1)) {
+      pieces.push(...got);
+      onProgress?.(Atomics.load(work.progress, 1), basis.dim);
+    }
+    onProgress?.(basis.dim, basis.dim);
+    // A renumbered matrix goes on shared memory when the basis does, as reorderForLocality put it.
+    return assemble(pieces, renumbered && shared);
+  }
   const workers = takeSolveWorkers(threads - 1);
   const helpers = workers.map(
     (w) =>

@@ -71,7 +71,10 @@ export interface UpperPiece {
   /** End of row r0+i's entries within this piece. */
   rowEnd: Int32Array;
   cols: Int32Array;
+  /** Entry values (re, im pairs when complex); with `oneValue`, the one value every entry has. */
   values: Float64Array;
+  /** Every entry's value is values[0] (real pieces built with `compactValues`). */
+  oneValue?: boolean;
 }
 
 /** Sizing and placement of one piece's arrays. */
@@ -82,6 +85,21 @@ export interface BuildRowsOptions {
   shared?: boolean;
   /** The whole matrix's diagonal: the piece writes its rows there and its `diag` is a view of them. */
   diag?: Float64Array;
+  /** When every (real) entry has one value, keep just that value (`UpperPiece.oneValue`). */
+  compactValues?: boolean;
+}
+
+/**
+ * Per-thread staging for a piece's entries: a piece is built here, then copied out at its exact
+ * size (and its values dropped when they are all one), so the pieces a build holds until assembly
+ * carry no spare capacity, and growth copies happen once per thread, not once per piece.
+ */
+let staging = { cols: new Int32Array(0), values: new Float64Array(0) };
+
+function stagingFor(cap: number, w: number): typeof staging {
+  if (staging.cols.length < cap) staging = { cols: new Int32Array(cap), values: new Float64Array(w * cap) };
+  else if (staging.values.length < w * cap) staging.values = new Float64Array(w * cap);
+  return staging;
 }
 
 /**
@@ -95,8 +113,8 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   // Shared buffers cross back to the calling thread without a copy.
   const alloc = (bytes: number): ArrayBufferLike => (opts.shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(bytes));
   let cap = Math.max(64, Math.ceil(rows * (opts.upperPerRow ?? 4) * 1.25) + 64);
-  let cols = new Int32Array(alloc(cap * 4));
-  let values = new Float64Array(alloc(w * cap * 8));
+  let { cols, values } = stagingFor(cap, w);
+  cap = Math.min(cols.length, values.length / w);
   const diag = opts.diag ? opts.diag.subarray(w * r0, w * r1) : new Float64Array(alloc(w * rows * 8));
   const rowEnd = new Int32Array(alloc(rows * 4));
   const s = rowScratch(plan);
@@ -113,12 +131,12 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
     }
     if (nnz + hits > cap) {
       while (nnz + hits > cap) cap *= 2;
-      const c2 = new Int32Array(alloc(cap * 4));
-      c2.set(cols);
-      cols = c2;
-      const v2 = new Float64Array(alloc(w * cap * 8));
-      v2.set(values);
-      values = v2;
+      const c2 = new Int32Array(cap);
+      c2.set(cols.subarray(0, nnz));
+      const v2 = new Float64Array(w * cap);
+      v2.set(values.subarray(0, w * nnz));
+      staging = { cols: c2, values: v2 };
+      ({ cols, values } = staging);
     }
     let e = 0;
     for (let r = b0; r < b1; r++) {
@@ -134,7 +152,24 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
       rowEnd[r - r0] = nnz;
     }
   }
-  return { r0, r1, diag, rowEnd, cols: cols.subarray(0, nnz), values: values.subarray(0, w * nnz) };
+  // Explicit lengths: a shared buffer is at least 8 bytes.
+  const outCols = new Int32Array(alloc(nnz * 4), 0, nnz);
+  outCols.set(cols.subarray(0, nnz));
+  if (opts.compactValues && !complex && nnz > 0 && allOneValue(values, nnz)) {
+    const one = new Float64Array(alloc(8), 0, 1);
+    one[0] = values[0]!;
+    return { r0, r1, diag, rowEnd, cols: outCols, values: one, oneValue: true };
+  }
+  const outValues = new Float64Array(alloc(w * nnz * 8), 0, w * nnz);
+  outValues.set(values.subarray(0, w * nnz));
+  return { r0, r1, diag, rowEnd, cols: outCols, values: outValues };
+}
+
+/** Whether values[0..n) are one value, bit for bit (−0 and 0 stay apart, as value codes keep them). */
+function allOneValue(values: Float64Array, n: number): boolean {
+  const v = values[0]!;
+  for (let i = 1; i < n; i++) if (!Object.is(values[i], v)) return false;
+  return true;
 }
 
 /**

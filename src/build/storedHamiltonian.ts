@@ -109,7 +109,7 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
       let pos = rowPtr[r]! + lower[r]!;
       for (const end = p.rowEnd[r - p.r0]!; e < end; e++, pos++) {
         const c = p.cols[e]!;
-        placePair(cols, codes, values, coding?.conjugate, complex, codes ? coding!.codeOf[codeAt++]! : 0, p.values, e, pos, c, lowerPos[c]!++, r);
+        placePair(cols, codes, values, coding?.conjugate, complex, codes ? coding!.codeOf[codeAt++]! : 0, p.values, p.oneValue ? 0 : e, pos, c, lowerPos[c]!++, r);
       }
     }
   }
@@ -166,7 +166,7 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
       const i = posOf[r]!;
       for (const end = p.rowEnd[r - p.r0]!; e < end; e++) {
         const j = posOf[p.cols[e]!]!;
-        placePair(cols, codes, values, coding?.conjugate, complex, codes ? coding!.codeOf[codeAt++]! : 0, p.values, e, rowPtr[i + 1]!++, j, rowPtr[j + 1]!++, i);
+        placePair(cols, codes, values, coding?.conjugate, complex, codes ? coding!.codeOf[codeAt++]! : 0, p.values, p.oneValue ? 0 : e, rowPtr[i + 1]!++, j, rowPtr[j + 1]!++, i);
       }
     }
   }
@@ -300,8 +300,9 @@ function valueCodes(pieces: UpperPiece[], complex: boolean): { codeOf: Uint16Arr
   let lastCode = -1;
   for (const p of pieces) {
     for (let e = 0; e < p.cols.length; e++) {
-      const re = complex ? p.values[2 * e]! : p.values[e]!;
-      const im = complex ? p.values[2 * e + 1]! : 0;
+      const k = p.oneValue ? 0 : e;
+      const re = complex ? p.values[2 * k]! : p.values[k]!;
+      const im = complex ? p.values[2 * k + 1]! : 0;
       if (!Object.is(re, lastRe) || !Object.is(im, lastIm)) {
         lastCode = find(re, im);
         if (lastCode < 0) return undefined;
@@ -334,7 +335,7 @@ function valueCodes(pieces: UpperPiece[], complex: boolean): { codeOf: Uint16Arr
  */
 
 /** A one-value matrix (a lattice model's hopping): the value is factored out of each row's sum. */
-function oneValueRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0: number, r1: number): void {
+function oneValueRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0: number, r1: number, yAt: number): void {
   const { rowPtr, cols, diag } = m;
   const v = m.table![0]!;
   let e = rowPtr[r0]!;
@@ -352,22 +353,22 @@ function oneValueRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0
         s3 += x[cols[e + 3 * len]!]!;
       }
       e += 3 * len;
-      y[r] = diag[r]! * x[r]! + v * s0;
-      y[r + 1] = diag[r + 1]! * x[r + 1]! + v * s1;
-      y[r + 2] = diag[r + 2]! * x[r + 2]! + v * s2;
-      y[r + 3] = diag[r + 3]! * x[r + 3]! + v * s3;
+      y[r - yAt] = diag[r]! * x[r]! + v * s0;
+      y[r - yAt + 1] = diag[r + 1]! * x[r + 1]! + v * s1;
+      y[r - yAt + 2] = diag[r + 2]! * x[r + 2]! + v * s2;
+      y[r - yAt + 3] = diag[r + 3]! * x[r + 3]! + v * s3;
       r += 4;
     } else {
       let s = 0;
       for (const end = e + len; e < end; e++) s += x[cols[e]!]!;
-      y[r] = diag[r]! * x[r]! + v * s;
+      y[r - yAt] = diag[r]! * x[r]! + v * s;
       r++;
     }
   }
 }
 
 /** Values as 8- or 16-bit codes into the table. */
-function codedRows(m: StoredHamiltonian, codes: Uint8Array | Uint16Array, x: Float64Array, y: Float64Array, r0: number, r1: number): void {
+function codedRows(m: StoredHamiltonian, codes: Uint8Array | Uint16Array, x: Float64Array, y: Float64Array, r0: number, r1: number, yAt: number): void {
   const { rowPtr, cols, diag } = m;
   const t = m.table!;
   let e = rowPtr[r0]!;
@@ -385,22 +386,22 @@ function codedRows(m: StoredHamiltonian, codes: Uint8Array | Uint16Array, x: Flo
         s3 += t[codes[e + 3 * len]!]! * x[cols[e + 3 * len]!]!;
       }
       e += 3 * len;
-      y[r] = s0;
-      y[r + 1] = s1;
-      y[r + 2] = s2;
-      y[r + 3] = s3;
+      y[r - yAt] = s0;
+      y[r - yAt + 1] = s1;
+      y[r - yAt + 2] = s2;
+      y[r - yAt + 3] = s3;
       r += 4;
     } else {
       let s = diag[r]! * x[r]!;
       for (const end = e + len; e < end; e++) s += t[codes[e]!]! * x[cols[e]!]!;
-      y[r] = s;
+      y[r - yAt] = s;
       r++;
     }
   }
 }
 
 /** Values as doubles. */
-function valuedRows(m: StoredHamiltonian, values: Float64Array, x: Float64Array, y: Float64Array, r0: number, r1: number): void {
+function valuedRows(m: StoredHamiltonian, values: Float64Array, x: Float64Array, y: Float64Array, r0: number, r1: number, yAt: number): void {
   const { rowPtr, cols, diag } = m;
   let e = rowPtr[r0]!;
   for (let r = r0; r < r1; ) {
@@ -417,27 +418,30 @@ function valuedRows(m: StoredHamiltonian, values: Float64Array, x: Float64Array,
         s3 += values[e + 3 * len]! * x[cols[e + 3 * len]!]!;
       }
       e += 3 * len;
-      y[r] = s0;
-      y[r + 1] = s1;
-      y[r + 2] = s2;
-      y[r + 3] = s3;
+      y[r - yAt] = s0;
+      y[r - yAt + 1] = s1;
+      y[r - yAt + 2] = s2;
+      y[r - yAt + 3] = s3;
       r += 4;
     } else {
       let s = diag[r]! * x[r]!;
       for (const end = e + len; e < end; e++) s += values[e]! * x[cols[e]!]!;
-      y[r] = s;
+      y[r - yAt] = s;
       r++;
     }
   }
 }
 
-/** y = H x over rows r0..r1 (vectors interleaved when complex). */
-export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0 = 0, r1 = m.dim): void {
+/**
+ * y = H x over rows r0..r1 (vectors interleaved when complex); row r goes to y[r − yAt], so a
+ * caller can take a block of rows into a short buffer (see `replayFusedRange`).
+ */
+export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0 = 0, r1 = m.dim, yAt = 0): void {
   const { rowPtr, cols, diag } = m;
   if (!m.complex) {
-    if (!m.codes && !m.values) oneValueRows(m, x, y, r0, r1);
-    else if (m.codes) codedRows(m, m.codes, x, y, r0, r1);
-    else valuedRows(m, m.values!, x, y, r0, r1);
+    if (!m.codes && !m.values) oneValueRows(m, x, y, r0, r1, yAt);
+    else if (m.codes) codedRows(m, m.codes, x, y, r0, r1, yAt);
+    else valuedRows(m, m.values!, x, y, r0, r1, yAt);
     return;
   }
   // Complex: entries as (re, im) pairs, from the table or the values.
@@ -457,8 +461,8 @@ export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float6
       sr += vr * xr - vi * xi;
       si += vr * xi + vi * xr;
     }
-    y[2 * r] = sr;
-    y[2 * r + 1] = si;
+    y[2 * (r - yAt)] = sr;
+    y[2 * (r - yAt) + 1] = si;
   }
 }
 

@@ -4,7 +4,7 @@ import { applyUpperRows } from '../build/projectedHamiltonian.js';
 import type { RowScanPlan } from '../build/rowScan.js';
 import { applyStoredRows, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import type { LinearOperator } from '../solvers/lanczos.js';
-import { localSweeps, replayRange, scaleRange, stepDotsRange, stepUpdateRange, type LanczosSweeps } from '../solvers/lanczosSweeps.js';
+import { localSweeps, REPLAY_BLOCK, replayFusedRange, replayRange, scaleRange, stepDotsRange, stepUpdateRange, type LanczosSweeps } from '../solvers/lanczosSweeps.js';
 import { closeSolveWorkers, releaseSolveWorkers, startSolveWorkers, takeSolveWorkers, type SolveWorkerMessage } from './solveWorkers.js';
 
 /**
@@ -43,6 +43,8 @@ const TASK_DOTS = 1;
 const TASK_UPDATE = 2;
 const TASK_SCALE = 3;
 const TASK_REPLAY = 4;
+/** The replay fused with a stored product (replayFusedRange): vectors v, vPrev, x; scalars a, b, inv, yj. */
+const TASK_REPLAY_PRODUCT = 5;
 /** Control slots: generation, done, task, then the task's vector indices from slot 3. */
 const SLOT_TASK = 2;
 const SLOT_VECTORS = 3;
@@ -54,6 +56,10 @@ const HANDED_OUT = 4;
 export function runTeamTask(spec: TeamSpec, m: number, ctrl: Int32Array): void {
   const task = Atomics.load(ctrl, SLOT_TASK);
   const vec = (k: number): Float64Array => spec.vectors[Atomics.load(ctrl, SLOT_VECTORS + k)]!;
+  if (task === TASK_REPLAY_PRODUCT) {
+    storedReplay(spec.matrix!, vec(0), vec(1), vec(2), spec.params, spec.bounds[m]!, spec.bounds[m + 1]!);
+    return;
+  }
   if (task === TASK_PRODUCT) {
     const r0 = spec.bounds[m]!;
     const r1 = spec.bounds[m + 1]!;
@@ -73,6 +79,16 @@ export function runTeamTask(spec: TeamSpec, m: number, ctrl: Int32Array): void {
   else if (task === TASK_UPDATE) spec.partials[2 * m] = stepUpdateRange(vec(0), vec(1), vec(2), p[0]!, p[1]!, i0, i1);
   else if (task === TASK_SCALE) scaleRange(vec(0), p[0]!, i0, i1);
   else if (task === TASK_REPLAY) replayRange(vec(0), vec(1), vec(2), vec(3), p[0]!, p[1]!, p[2]!, p[3]!, i0, i1);
+}
+
+/** This thread's block buffer for fused replays (each worker has its own module instance). */
+let replayScratch = new Float64Array(0);
+
+/** The fused replay of a stored matrix over rows [r0, r1), with the step's scalars p = [a, b, inv, yj]. */
+function storedReplay(matrix: StoredHamiltonian, v: Float64Array, vPrev: Float64Array, x: Float64Array, p: Float64Array, r0: number, r1: number): void {
+  const width = matrix.complex ? 2 : 1;
+  if (replayScratch.length < width * REPLAY_BLOCK) replayScratch = new Float64Array(width * REPLAY_BLOCK);
+  replayFusedRange((y, rb, re) => applyStoredRows(matrix, v, y, rb, re, rb), width, v, vPrev, x, p[0]!, p[1]!, p[2]!, p[3]!, r0, r1, replayScratch);
 }
 
 const sharedVector = (len: number): Float64Array => new Float64Array(new SharedArrayBuffer(Math.max(8, len * 8)));
@@ -128,6 +144,7 @@ export class MatvecTeam implements LinearOperator {
     const partials = sharedVector(2 * members);
     this.spec = { ...spec, matrix, vectors: [], ys, bounds: splitRows(spec, members), sweepBounds, control, params, partials };
     this.ctrl = new Int32Array(control);
+    if (spec.kind === 'stored') this.replayStep = this.storedReplayStep.bind(this);
     this.dim = spec.dim;
     this.complex = spec.complex;
     this.workers = takeSolveWorkers(members - 1);
@@ -236,6 +253,15 @@ export class MatvecTeam implements LinearOperator {
       this.run(TASK_REPLAY, at, [a, b, inv, yj]);
     },
   };
+
+  /** The fused replay over the team's rows (stored matrices only; see LinearOperator.replayStep). */
+  readonly replayStep?: LinearOperator['replayStep'];
+
+  private storedReplayStep(v: Float64Array, vPrev: Float64Array, x: Float64Array, a: number, b: number, inv: number, yj: number): void {
+    const at = this.indices(v, vPrev, x);
+    if (!at) return storedReplay(this.spec.matrix!, v, vPrev, x, Float64Array.of(a, b, inv, yj), 0, this.dim);
+    this.run(TASK_REPLAY_PRODUCT, at, [a, b, inv, yj]);
+  }
 
   /** Release the workers: they leave this team's loop and wait, idle, for the next team. */
   close(): void {

@@ -17,6 +17,7 @@ import { groupByFlipMask, highestQubit, type PauliSum } from '../operators/pauli
 import { compileSector, describeSector, type Sector } from '../sectors/sector.js';
 import { selectSubspace, type SubspaceReport } from '../sectors/selectSubspace.js';
 import { lanczos, LANCZOS_DEFAULTS, type LanczosResult, type LinearOperator } from '../solvers/lanczos.js';
+import { REPLAY_BLOCK, replayFusedRange } from '../solvers/lanczosSweeps.js';
 import type { SampleSet } from '../io/readSamples.js';
 import { stateOnBasis, type StateOnConfigs } from '../analysis/stateOnBasis.js';
 import type { AnalysisOptions, AnalysisReport, ReferenceEnergy } from './analyze.js';
@@ -72,6 +73,8 @@ export function stageClock(timings: Record<string, number>): { lap(name: string)
 
 /** Everything `solve` needs; file paths are read here, at the edge. */
 export interface SolveOptions extends SampledRunOptions {
+  /** See SolverSettings.releaseIndex: the returned basis then holds only its configurations (ignored with expansion, a start state or an analysis). */
+  releaseIndex?: boolean;
   /** Pauli-sum Hamiltonian file; exactly one of `hamiltonian` and `integrals` is given. */
   hamiltonian?: string;
   /** FCIDUMP file: the Hamiltonian as molecular integrals, solved in the determinant basis. */
@@ -175,7 +178,7 @@ export function matrixFreeOperator(hamiltonian: PauliSum, basis: Basis, sector: 
 
 /** Operator view of a stored Hamiltonian (single thread). */
 export function storedOperator(m: StoredHamiltonian): LinearOperator {
-  if (!m.order) return { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
+  if (!m.order) return storageOrderOperator(m);
   // Vectors are in basis order; the rows are not: permute in and out around each product.
   const len = m.complex ? 2 * m.dim : m.dim;
   const xs = new Float64Array(len);
@@ -188,6 +191,18 @@ export function storedOperator(m: StoredHamiltonian): LinearOperator {
       applyStoredRows(m, xs, ys);
       permuteVector(m, ys, y, false);
     },
+  };
+}
+
+/** A stored matrix as an operator on vectors in its storage order, on this thread, with the fused two-pass replay. */
+export function storageOrderOperator(m: StoredHamiltonian): LinearOperator {
+  const width = m.complex ? 2 : 1;
+  const scratch = new Float64Array(width * REPLAY_BLOCK);
+  return {
+    dim: m.dim,
+    complex: m.complex,
+    apply: (x, y) => applyStoredRows(m, x, y),
+    replayStep: (v, vPrev, x, a, b, inv, yj) => replayFusedRange((y, rb, re) => applyStoredRows(m, v, y, rb, re, rb), width, v, vPrev, x, a, b, inv, yj, 0, m.dim, scratch),
   };
 }
 
@@ -210,6 +225,12 @@ export const REORDER_MIN_DIM = 50000;
  * 70–90 ms more assembly at 10^6 (the sort and the diagonal placed by position).
  */
 export const LENGTH_SORT_MIN_DIM = 4096;
+
+/** How the solver stores a matrix's rows (options of `buildProjectedHamiltonianParallel`); the bench builds its matrices by this too. */
+export function storedRowOrder(dim: number, complex: boolean, teamed: boolean, reorderFromDim?: number): { locality: boolean; lengths: boolean } {
+  const locality = dim >= (reorderFromDim ?? (teamed ? Infinity : REORDER_MIN_DIM));
+  return { locality, lengths: !locality && !complex && dim >= LENGTH_SORT_MIN_DIM };
+}
 
 /** Operator view of a stored sparse matrix. */
 export function matrixOperator(m: SparseMatrix): LinearOperator {
@@ -317,6 +338,12 @@ export interface SolverSettings {
   memoryBytes?: number;
   /** Apply H on the fly instead of storing H_S. */
   matrixFree?: boolean;
+  /**
+   * Once a stored matrix is built, release the basis's hash slots, Bloom filter and counts (the
+   * basis object is left holding empty arrays): for a caller that reads only the configurations
+   * afterwards, such as the CLI's plain solve. About 18 MB at D = 10^6 off the solve's peak.
+   */
+  releaseIndex?: boolean;
   /** Renumber a stored matrix's rows for locality from this dimension (default: REORDER_MIN_DIM when products run on one thread, else never). */
   reorderFromDim?: number;
   /** Progress of the build (rows) and of the solve (matrix-vector products, residual). */
@@ -361,17 +388,21 @@ export async function projectAndSolve(hamiltonian: PauliSum, basis: Basis, secto
   if (plan.storage === 'stored') {
     // The memory plan sampled rows already: nonzeros = 2·upper + dim.
     const upperPerRow = (plan.nonzerosEstimate - basis.dim) / (2 * Math.max(1, basis.dim));
-    const locality = basis.dim >= (settings.reorderFromDim ?? (teamed ? Infinity : REORDER_MIN_DIM));
-    const lengths = !locality && !scan.complex && basis.dim >= LENGTH_SORT_MIN_DIM;
-    matrix = await buildProjectedHamiltonianParallel(basis, scan, threads, { upperPerRow, locality, lengths, onProgress: settings.onBuildProgress });
+    const order = storedRowOrder(basis.dim, scan.complex, teamed, settings.reorderFromDim);
+    matrix = await buildProjectedHamiltonianParallel(basis, scan, threads, { upperPerRow, ...order, onProgress: settings.onBuildProgress });
     // Lanczos runs in storage order; its start vector goes in and its eigenvectors come out below.
     const m = matrix;
-    op = teamed ? (team = new MatvecTeam({ kind: 'stored', complex: m.complex, dim: m.dim, matrix: m }, threads)) : { dim: m.dim, complex: m.complex, apply: (x, y) => applyStoredRows(m, x, y) };
+    op = teamed ? (team = new MatvecTeam({ kind: 'stored', complex: m.complex, dim: m.dim, matrix: m }, threads)) : storageOrderOperator(m);
   } else {
     const view: Basis = { ...basis, counts: new Float64Array(0) };
     const rows = basis.filter.byteLength >= FILTER_ORDER_MIN_BYTES ? filterOrder(basis) : undefined;
     const spec = { kind: 'free' as const, complex: groups.complex, dim: basis.dim, basis: view, plan: scan, rows };
     op = teamed ? (team = new MatvecTeam(spec, threads)) : { dim: basis.dim, complex: groups.complex, apply: (x, y) => (y.fill(0), applyUpperRows(basis, scan, 0, basis.dim, x, y, rows)) };
+  }
+  if (settings.releaseIndex && matrix) {
+    basis.slots = new Int32Array(0);
+    basis.filter = new Uint32Array(0);
+    basis.counts = new Float64Array(0);
   }
   // The build's pieces are garbage now: give them back before Lanczos allocates its vectors.
   if (basis.dim >= COLLECT_MIN_DIM) collectGarbage();
@@ -451,6 +482,8 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     matrixFree: opts.matrixFree,
     onBuildProgress: opts.onBuildProgress,
     onSolveProgress: opts.onSolveProgress,
+    // Expansion looks configurations up between its solves.
+    releaseIndex: opts.releaseIndex === true && !(opts.expand && opts.expand.steps > 0),
   };
   const selected = await readAndSelect(opts, hamiltonian, hamiltonianFile, sector, settings, clock, timings);
   const sub: SubspaceSolveOptions = { hamiltonianFile, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start: selected.start, analysis: selected.analysis };
@@ -551,7 +584,9 @@ export async function solveBasis(
   const complex = groupByFlipMask(hamiltonian, basis.nWords).complex;
   const start = opts.start ? stateOnBasis(opts.start.state, basis, complex) : null;
   const threads = opts.threads ?? defaultThreads();
-  const projection = await projectAndSolve(hamiltonian, basis, opts.sector, { ...opts, tol, seed, threads, start: start ?? undefined });
+  // The index is needed afterwards to match a start state and by the analyses.
+  const releaseIndex = opts.releaseIndex === true && !opts.start && !opts.analysis;
+  const projection = await projectAndSolve(hamiltonian, basis, opts.sector, { ...opts, tol, seed, threads, start: start ?? undefined, releaseIndex });
   const { matrix, eigen } = projection;
   timings.build = projection.timings.build;
   timings.solve = projection.timings.solve;

@@ -19,6 +19,12 @@ export interface LinearOperator {
   vector?(): Float64Array;
   /** Lanczos vector sweeps on the operator's own threads, for vectors from `vector()` (see lanczosSweeps.ts). */
   sweeps?: LanczosSweeps;
+  /**
+   * A replayed two-pass step with its product fused in (see `replayFusedRange`): x += yj·v and
+   * vPrev ← (H v − a·v − b·vPrev)·inv, with no vector for H v. Operators whose rows are computed
+   * one at a time (a stored matrix) offer it; a matrix-free product scatters across rows and cannot.
+   */
+  replayStep?(v: Float64Array, vPrev: Float64Array, x: Float64Array, a: number, b: number, inv: number, yj: number): void;
 }
 
 /** Options of `lanczos`; defaults live in `LANCZOS_DEFAULTS`. */

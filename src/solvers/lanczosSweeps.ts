@@ -42,6 +42,42 @@ export function replayRange(v: Float64Array, vPrev: Float64Array, w: Float64Arra
   }
 }
 
+/** Rows per block of a fused replay: the block's H v stays in L1 between the product and the update. */
+export const REPLAY_BLOCK = 256;
+
+/**
+ * The replayed step fused with its product, over rows [r0, r1) of `width` doubles each (2 when
+ * complex): `rowsInto(y, rb, re)` writes (H v) of rows rb..re into y from index 0, then
+ * x += yj·v and vPrev ← (H v − a·v − b·vPrev)·inv there, with the arithmetic of `replayRange`.
+ * vPrev is overwritten in place (a row's update reads only its own entries of it, and products
+ * gather only from v), so the step holds no w. `scratch`: REPLAY_BLOCK·width doubles.
+ */
+export function replayFusedRange(
+  rowsInto: (y: Float64Array, rb: number, re: number) => void,
+  width: number,
+  v: Float64Array,
+  vPrev: Float64Array,
+  x: Float64Array,
+  a: number,
+  b: number,
+  inv: number,
+  yj: number,
+  r0: number,
+  r1: number,
+  scratch: Float64Array,
+): void {
+  for (let rb = r0; rb < r1; rb += REPLAY_BLOCK) {
+    const re = Math.min(r1, rb + REPLAY_BLOCK);
+    rowsInto(scratch, rb, re);
+    const i0 = width * rb;
+    for (let i = i0, end = width * re; i < end; i++) {
+      const vi = v[i]!;
+      x[i]! += yj * vi;
+      vPrev[i] = (scratch[i - i0]! - a * vi - b * vPrev[i]!) * inv;
+    }
+  }
+}
+
 /** The sweeps of two-pass Lanczos over whole vectors. */
 export interface LanczosSweeps {
   /** [Σ v·w, Σ v·vPrev]. */

@@ -20,7 +20,8 @@ export interface TwoPassOptions {
 }
 
 /**
- * The lowest eigenpair by plain Lanczos without reorthogonalisation, holding three vectors: the
+ * The lowest eigenpair by plain Lanczos without reorthogonalisation, holding three vectors (four
+ * in a second pass whose operator cannot fuse the replay with its product): the
  * first pass builds the tridiagonal matrix until the lowest Ritz value's residual estimate
  * |β_j y_j| is below tol·max|θ|; the second pass replays the same recurrence from the same start
  * vector to form the Ritz vector (Paige: the lowest Ritz pair converges before orthogonality loss
@@ -86,7 +87,10 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
   if (!y || y.length !== steps) {
     y = tridiagonalLowest(alpha, beta).vector;
   }
-  const x = vector();
+  // When pass 2 needs no w (every vector kept, or the operator fuses the replay with its product),
+  // x takes w's place: the solve then holds three vectors, not four.
+  const fused = op.replayStep?.bind(op);
+  const x = kept.length >= steps || fused ? w.fill(0) : vector();
   if (kept.length >= steps) {
     // Every vector of the run was kept: x = Σ y_j v_j directly, no second pass.
     for (let j = 0; j < steps; j++) axpy(y[j]!, 0, kept[j]!, x, false);
@@ -110,8 +114,16 @@ export function lanczosTwoPass(op: LinearOperator, opts: TwoPassOptions): Lanczo
         axpy(y[j]!, 0, v, x, false);
         break;
       }
-      op.apply(v, w);
       matvecs++;
+      if (fused) {
+        // The next vector is written over vPrev.
+        fused(v, vPrev, x, alpha[j]!, j > 0 ? beta[j - 1]! : 0, 1 / beta[j]!, y[j]!);
+        const t = vPrev;
+        vPrev = v;
+        v = t;
+        continue;
+      }
+      op.apply(v, w);
       sweeps.replay(v, vPrev, w, x, alpha[j]!, j > 0 ? beta[j - 1]! : 0, 1 / beta[j]!, y[j]!);
       const t = vPrev;
       vPrev = v;

@@ -4,6 +4,9 @@ import type { UpperPiece } from '../../src/build/projectedHamiltonian.js';
 import { toDense } from '../../src/build/sparseMatrix.js';
 import { applyStoredRows, lengthSorted, localityOrder, permuteVector, reorderForLocality, sortRowsByLength, storedFromPieces, storedNonzeros, toBasisOrderInPlace, toSparseMatrix, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
 import { seededUniform } from '../../src/util/random.js';
+import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { lanczos } from '../../src/solvers/lanczos.js';
+import { storageOrderOperator } from '../../src/pipeline/solve.js';
 
 /**
  * Random upper triangles (diagonal plus entries right of it) split into row pieces, with values
@@ -298,3 +301,44 @@ describe('product kernels on rows of equal and unequal length', () => {
     );
   });
 });
+
+describe('one-value pieces and the fused replay', () => {
+  it('storedFromPieces gives the same matrix from one-value pieces (UpperPiece.oneValue) as from their values written out', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 30 }), fc.integer({ min: 1, max: 1e6 }), fc.constantFrom(undefined, 'locality' as const, 'lengths' as const), (dim, seed, order) => {
+        // Levels 1: every real off-diagonal value is one (-0.5 or 0.5 per seed); each piece keeps just it.
+        const pieces = randomPieces(dim, false, seed, 1, 0.3);
+        const compact = pieces.map((p) => (p.cols.length > 0 ? { ...p, values: p.values.slice(0, 1), oneValue: true } : p));
+        const a = storedFromPieces(dim, false, pieces, false, order);
+        const b = storedFromPieces(dim, false, compact, false, order);
+        for (const key of ['diag', 'rowPtr', 'cols', 'codes', 'table', 'values', 'order'] as const) {
+          expect(b[key] === undefined ? undefined : Array.from(b[key]!), key).toEqual(a[key] === undefined ? undefined : Array.from(a[key]!));
+        }
+      }),
+      { numRuns: 100, seed: 33 },
+    );
+  });
+
+  it('two-pass Lanczos with the fused replay (storageOrderOperator) returns bit for bit what the separate replay returns, real and complex', () => {
+    for (const complex of [false, true]) {
+      // Dense enough that pass 1 runs long enough for a second pass (no early exact convergence).
+      const dim = 600;
+      const m = storedFromPieces(dim, complex, randomPieces(dim, complex, 41, 3, 0.01));
+      const unfused = { dim, complex, apply: (x: Float64Array, y: Float64Array) => applyStoredRows(m, x, y) };
+      const opts = { eigs: 1, strategy: 'two-pass' as const, tol: 1e-10, seed: 5 };
+      const want = lanczos(unfused, opts);
+      const got = lanczos(storageOrderOperator(m), opts);
+      expect(want.iterations).toBeGreaterThan(2);
+      expect(Array.from(got.values)).toEqual(Array.from(want.values));
+      expect(Array.from(got.vectors[0]!)).toEqual(Array.from(want.vectors[0]!));
+      // And it is the lowest eigenvalue: ml-matrix on the dense matrix (real case; outside reference).
+      if (!complex) {
+        const dense = toDense(toSparseMatrix(m));
+        const rows = Array.from({ length: dim }, (_, i) => Array.from(dense.re.subarray(i * dim, (i + 1) * dim)));
+        const lowest = Math.min(...new EigenvalueDecomposition(new Matrix(rows), { assumeSymmetric: true }).realEigenvalues);
+        expect(Math.abs(got.values[0]! - lowest)).toBeLessThan(1e-8);
+      }
+    }
+  });
+});
+

@@ -2,6 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { applyStoredRows, storedFromPieces, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
 import { closeMatvecWorkers, MatvecTeam, startMatvecWorkers, teamMembers } from '../../src/parallel/matvecTeam.js';
 import { lanczos } from '../../src/solvers/lanczos.js';
+import { storageOrderOperator } from '../../src/pipeline/solve.js';
 import { localSweeps } from '../../src/solvers/lanczosSweeps.js';
 import { seededUniform } from '../../src/util/random.js';
 
@@ -152,5 +153,33 @@ describe('MatvecTeam', () => {
     } finally {
       team.close();
     }
+  });
+
+  it('the fused replay (replayStep) gives two-pass Lanczos bit for bit the result of the separate product and replay sweep, on one thread and on a team', () => {
+    const m = randomSymmetric(20000, 3, 62);
+    const unfused = { dim: m.dim, complex: false, apply: (x: Float64Array, y: Float64Array) => applyStoredRows(m, x, y) };
+    const opts = { eigs: 1, strategy: 'two-pass' as const, tol: 1e-10, seed: 9 };
+    const want = lanczos(unfused, opts);
+    const got = lanczos(storageOrderOperator(m), opts);
+    expect(Array.from(got.values)).toEqual(Array.from(want.values));
+    expect(got.matvecs).toBe(want.matvecs);
+    expect(Buffer.from(got.vectors[0]!.buffer).equals(Buffer.from(want.vectors[0]!.buffer))).toBe(true);
+    // Each run gets a fresh team: a team hands out four shared vectors, and sweeps over other arrays
+    // run on one thread, whose sums are taken in another order.
+    const onTeam = (fused: boolean): ReturnType<typeof lanczos> => {
+      const team = new MatvecTeam({ kind: 'stored', complex: false, dim: m.dim, matrix: m }, 2);
+      try {
+        expect(team.replayStep).toBeTypeOf('function');
+        // Without the fused step: the team's product, then its replay sweep.
+        return lanczos(fused ? team : { dim: team.dim, complex: false, apply: (x, y) => team.apply(x, y), vector: () => team.vector(), sweeps: team.sweeps }, opts);
+      } finally {
+        team.close();
+      }
+    };
+    const fusedTeam = onTeam(true);
+    const plainTeam = onTeam(false);
+    expect(Array.from(fusedTeam.values)).toEqual(Array.from(plainTeam.values));
+    expect(Array.from(fusedTeam.vectors[0]!)).toEqual(Array.from(plainTeam.vectors[0]!));
+    expect(Math.abs(fusedTeam.values[0]! - want.values[0]!)).toBeLessThan(1e-10 * Math.abs(want.values[0]!));
   });
 });

@@ -70,6 +70,25 @@ describe('solve', () => {
     closeTo(dense[0]!, published[8]!, 2e-9, 'dense N=8');
   });
 
+  it('solve with releaseIndex gives the same report and leaves the basis only its configurations; a start state or an analysis keeps the index', async () => {
+    const n = 12;
+    const dir = tempDir();
+    const idx = weightIndices(n, n / 2);
+    const opts = { hamiltonian: writeHamiltonian(dir, n, heisenbergRing(n)), samples: [writeSamples(dir, 's.csv', n, idx)], sector: { weights: [{ lo: 0, hi: -1, weight: n / 2 }] }, tol: 1e-10, threads: 1 };
+    const kept = await solve(opts);
+    const lean = await solve({ ...opts, releaseIndex: true });
+    // Published N = 12 ring energy (as in the test above, from memory), and the same numbers either way.
+    closeTo(lean.report.energies[0]!, -5.387390917, 2e-9, 'N=12');
+    expect(lean.report.energies).toEqual(kept.report.energies);
+    expect(lean.report.groundState).toEqual(kept.report.groundState);
+    expect([lean.basis.slots.length, lean.basis.filter.length, lean.basis.counts.length]).toEqual([0, 0, 0]);
+    expect(Array.from(lean.basis.states)).toEqual(Array.from(kept.basis.states));
+    expect(kept.basis.slots.length).toBeGreaterThan(0);
+    const analysed = await solve({ ...opts, releaseIndex: true, analysis: { estimate: true } });
+    expect(analysed.basis.slots.length).toBeGreaterThan(0);
+    expect(analysed.basis.counts.length).toBe(idx.length);
+  });
+
   it('solve energies obey the variational bound and never rise when configurations are added (property)', async () => {
     // Cauchy interlacing (common practice): the lowest eigenvalue of a principal submatrix is ≥ that of the matrix.
     const n = 8;

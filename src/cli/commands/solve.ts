@@ -85,6 +85,8 @@ export function solveCommand(io: CliIo): Command {
         onSolveProgress: (i) => progress.solve(i),
         expand: expandFromFlags(f),
         startState: f.startState,
+        // Only the configurations are read from the basis after a plain solve (--plot computes observables).
+        releaseIndex: !f.plot,
         analysis: wantsAnalysis
           ? {
               // --gap only makes sense with the variance, so it implies --estimate.
