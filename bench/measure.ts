@@ -37,9 +37,11 @@ async function matvec(hamiltonian: string, samples: string, weight: number): Pro
   const { basis } = selectSubspace(s, { sector, shared: true });
   const groups = groupByFlipMask(h, basis.nWords);
   const plan = rowScanPlan(groups, sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords)));
+  // Both thread counts store the matrix as a two-thread solve does, so they do the same work.
+  const teamOrder = storedRowOrder(basis.dim, plan.complex, true);
   const build = async (threads: number): Promise<number> => {
     const t = performance.now();
-    await buildProjectedHamiltonianParallel(basis, plan, threads);
+    await buildProjectedHamiltonianParallel(basis, plan, threads, teamOrder);
     return (performance.now() - t) / 1000;
   };
   await build(2); // warm the pool and the JIT

@@ -118,7 +118,8 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
 
 /**
  * Storage row i = basis row take[i]. Every upper entry (r, c) lands in storage row posOf[r] and
- * its mirror in posOf[c]; each row is then sorted by column, as `permuteStored` leaves it.
+ * its mirror in posOf[c]. Pieces come in row order, so each row lists its entries in ascending
+ * basis index (its mirrored lower ones, then its upper ones), as `permuteStored` keeps them.
  */
 function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], order: StorageOrder | 'locality' | 'lengths', shared: boolean): StoredHamiltonian {
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
@@ -170,34 +171,9 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
       }
     }
   }
-  for (let i = 0; i < dim; i++) sortByColumn(cols, codes, values, w, rowPtr[i]!, rowPtr[i + 1]!);
   const out: StoredHamiltonian = coding ? { dim, complex, diag, rowPtr, cols, codes, table: coding.table } : { dim, complex, diag, rowPtr, cols, values };
   out.order = take;
   return out;
-}
-
-// Insertion sort of one stored row by column (rows hold a handful of entries), codes or values alongside.
-function sortByColumn(cols: Int32Array, codes: Uint8Array | Uint16Array | undefined, values: Float64Array | undefined, w: number, start: number, end: number): void {
-  for (let a = start + 1; a < end; a++) {
-    const c = cols[a]!;
-    if (c > cols[a - 1]!) continue;
-    const code = codes ? codes[a]! : 0;
-    const v0 = values ? values[w * a]! : 0;
-    const v1 = values && w === 2 ? values[w * a + 1]! : 0;
-    let j = a - 1;
-    while (j >= start && cols[j]! > c) {
-      cols[j + 1] = cols[j]!;
-      if (codes) codes[j + 1] = codes[j]!;
-      else if (values) for (let k = 0; k < w; k++) values[w * (j + 1) + k] = values[w * j + k]!;
-      j--;
-    }
-    cols[j + 1] = c;
-    if (codes) codes[j + 1] = code;
-    else if (values) {
-      values[w * (j + 1)] = v0;
-      if (w === 2) values[w * (j + 1) + 1] = v1;
-    }
-  }
 }
 
 /** The entries' value storage: 8- or 16-bit codes when the values were coded, none for one real value, else doubles. */
@@ -256,11 +232,26 @@ function wholeDiagonal(pieces: UpperPiece[], w: number, dim: number, shared: boo
   return rows === dim ? new Float64Array(buffer, 0, w * dim) : undefined;
 }
 
+/** The value every entry of the pieces has, when they are real one-value pieces (UpperPiece.oneValue) of one value, bit for bit; else undefined. */
+function sharedOneValue(pieces: UpperPiece[], complex: boolean): number | undefined {
+  if (complex) return undefined;
+  let value: number | undefined;
+  for (const p of pieces) {
+    if (p.cols.length === 0) continue;
+    if (!p.oneValue || (value !== undefined && !Object.is(p.values[0], value))) return undefined;
+    value = p.values[0]!;
+  }
+  return value;
+}
+
 /**
  * The code of every upper entry (in piece order), the table of distinct values, and for each code
  * the code of its conjugate; undefined when there are more than MAX_CODES distinct values.
  */
 function valueCodes(pieces: UpperPiece[], complex: boolean): { codeOf: Uint16Array; table: Float64Array; conjugate: Uint16Array; count: number } | undefined {
+  const one = sharedOneValue(pieces, complex);
+  // Every entry has one real value (a lattice hopping): no per-entry codes are needed or stored.
+  if (one !== undefined) return { codeOf: new Uint16Array(0), table: Float64Array.of(one), conjugate: Uint16Array.of(0), count: 1 };
   let upper = 0;
   for (const p of pieces) upper += p.cols.length;
   const w = complex ? 2 : 1;
@@ -468,9 +459,10 @@ export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float6
 
 /**
  * The same matrix with storage row i taken from row `take[i]` of `m`; `posOf` is the inverse map
- * (old row → new row). Columns are renumbered and kept ascending within each row.
+ * (old row → new row). Columns are renumbered; each row keeps its entries' order (ascending basis
+ * index in every matrix made here) unless `ascending` sorts them by their new column.
  */
-function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array, order: Int32Array | undefined, shared: boolean): StoredHamiltonian {
+function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array, order: Int32Array | undefined, shared: boolean, ascending = false): StoredHamiltonian {
   const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
   const { dim, complex } = m;
   const w = complex ? 2 : 1;
@@ -490,7 +482,7 @@ function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array
       // Insertion by column: rows hold a handful of entries.
       const c = posOf[m.cols[e]!]!;
       let j = at;
-      while (j > start && cols[j - 1]! > c) {
+      while (ascending && j > start && cols[j - 1]! > c) {
         cols[j] = cols[j - 1]!;
         if (codes) codes[j] = codes[j - 1]!;
         else if (values) for (let k = 0; k < w; k++) values[w * j + k] = values[w * (j - 1) + k]!;
@@ -557,7 +549,10 @@ function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lo
 
 /** Basis order as a StorageOrder. */
 function identityOrder(dim: number): StorageOrder {
-  return { take: Int32Array.from({ length: dim }, (_, i) => i), posOf: Int32Array.from({ length: dim }, (_, i) => i) };
+  // A plain loop: `Int32Array.from` with a map function costs tens of milliseconds at 10^6 rows.
+  const take = new Int32Array(dim);
+  for (let i = 0; i < dim; i++) take[i] = i;
+  return { take, posOf: take.slice() };
 }
 
 /** Rows per window that `lengthSorted` sorts: measured at D = 10^6, 4096 beat 256 and 1024 (and the whole matrix, which loses locality). */
@@ -647,7 +642,7 @@ export function inBasisOrder(m: StoredHamiltonian): StoredHamiltonian {
   const posOf = new Int32Array(m.dim);
   for (let i = 0; i < m.dim; i++) posOf[m.order[i]!] = i;
   // Row b of the result is storage row posOf[b]; a column (storage row) c becomes basis row order[c].
-  return permuteStored(m, posOf, m.order, undefined, false);
+  return permuteStored(m, posOf, m.order, undefined, false, true);
 }
 
 /** x in basis order → storage order (`toStorage`), or back; complex vectors move in pairs. */

@@ -3,7 +3,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { makeBasis } from '../../src/bits/basis.js';
 import { buildProjectedHamiltonianParallel } from '../../src/build/parallelBuild.js';
 import { sectorFlipTest } from '../../src/build/projectedHamiltonian.js';
-import { rowScanPlan } from '../../src/build/rowScan.js';
+import { rowScanPlan, upperPerRowEstimate } from '../../src/build/rowScan.js';
 import { LENGTH_WINDOW, reorderForLocality, sortRowsByLength, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
 import { readHamiltonian } from '../../src/io/readHamiltonian.js';
 import { readSamples } from '../../src/io/readSamples.js';
@@ -80,6 +80,9 @@ describe('buildProjectedHamiltonianParallel', () => {
     const groups = groupByFlipMask(h, basis.nWords);
     const plan = rowScanPlan(groups, sectorFlipTest(groups, compileSector(sector, basis.qubits, basis.nWords)));
     const plain = await buildProjectedHamiltonianParallel(basis, plan, 1);
+    // The memory plan's estimate of upper entries per row (sampled blocks) is close to the built count.
+    const perRow = plain.rowPtr[plain.dim]! / 2 / plain.dim;
+    expect(Math.abs(upperPerRowEstimate(basis, plan) - perRow)).toBeLessThan(0.1 * perRow);
     const bfs = reorderForLocality(plain);
     const bytes = (a: ArrayBufferView | undefined): Buffer | undefined => (a ? Buffer.from(a.buffer, a.byteOffset, a.byteLength) : undefined);
     for (const [opts, want] of [
