@@ -358,41 +358,11 @@ function oneValueRows(m: StoredHamiltonian, x: Float64Array, y: Float64Array, r0
   }
 }
 
-/** Values as 8- or 16-bit codes into the table. */
-function codedRows(m: StoredHamiltonian, codes: Uint8Array | Uint16Array, x: Float64Array, y: Float64Array, r0: number, r1: number, yAt: number): void {
-  const { rowPtr, cols, diag } = m;
-  const t = m.table!;
-  let e = rowPtr[r0]!;
-  for (let r = r0; r < r1; ) {
-    const len = rowPtr[r + 1]! - e;
-    if (r + 4 <= r1 && rowPtr[r + 2]! - e === 2 * len && rowPtr[r + 3]! - e === 3 * len && rowPtr[r + 4]! - e === 4 * len) {
-      let s0 = diag[r]! * x[r]!;
-      let s1 = diag[r + 1]! * x[r + 1]!;
-      let s2 = diag[r + 2]! * x[r + 2]!;
-      let s3 = diag[r + 3]! * x[r + 3]!;
-      for (const end = e + len; e < end; e++) {
-        s0 += t[codes[e]!]! * x[cols[e]!]!;
-        s1 += t[codes[e + len]!]! * x[cols[e + len]!]!;
-        s2 += t[codes[e + 2 * len]!]! * x[cols[e + 2 * len]!]!;
-        s3 += t[codes[e + 3 * len]!]! * x[cols[e + 3 * len]!]!;
-      }
-      e += 3 * len;
-      y[r - yAt] = s0;
-      y[r - yAt + 1] = s1;
-      y[r - yAt + 2] = s2;
-      y[r - yAt + 3] = s3;
-      r += 4;
-    } else {
-      let s = diag[r]! * x[r]!;
-      for (const end = e + len; e < end; e++) s += t[codes[e]!]! * x[cols[e]!]!;
-      y[r - yAt] = s;
-      r++;
-    }
-  }
-}
-
-/** Values as doubles. */
-function valuedRows(m: StoredHamiltonian, values: Float64Array, x: Float64Array, y: Float64Array, r0: number, r1: number, yAt: number): void {
+/**
+ * Entry values from a table: table[codes[e]] (8- or 16-bit codes) or, without codes, the doubles
+ * table[e] of `values`. The choice is one predictable branch per entry.
+ */
+function tabledRows(m: StoredHamiltonian, t: Float64Array, codes: Uint8Array | Uint16Array | undefined, x: Float64Array, y: Float64Array, r0: number, r1: number, yAt: number): void {
   const { rowPtr, cols, diag } = m;
   let e = rowPtr[r0]!;
   for (let r = r0; r < r1; ) {
@@ -403,10 +373,10 @@ function valuedRows(m: StoredHamiltonian, values: Float64Array, x: Float64Array,
       let s2 = diag[r + 2]! * x[r + 2]!;
       let s3 = diag[r + 3]! * x[r + 3]!;
       for (const end = e + len; e < end; e++) {
-        s0 += values[e]! * x[cols[e]!]!;
-        s1 += values[e + len]! * x[cols[e + len]!]!;
-        s2 += values[e + 2 * len]! * x[cols[e + 2 * len]!]!;
-        s3 += values[e + 3 * len]! * x[cols[e + 3 * len]!]!;
+        s0 += t[codes ? codes[e]! : e]! * x[cols[e]!]!;
+        s1 += t[codes ? codes[e + len]! : e + len]! * x[cols[e + len]!]!;
+        s2 += t[codes ? codes[e + 2 * len]! : e + 2 * len]! * x[cols[e + 2 * len]!]!;
+        s3 += t[codes ? codes[e + 3 * len]! : e + 3 * len]! * x[cols[e + 3 * len]!]!;
       }
       e += 3 * len;
       y[r - yAt] = s0;
@@ -416,7 +386,7 @@ function valuedRows(m: StoredHamiltonian, values: Float64Array, x: Float64Array,
       r += 4;
     } else {
       let s = diag[r]! * x[r]!;
-      for (const end = e + len; e < end; e++) s += values[e]! * x[cols[e]!]!;
+      for (const end = e + len; e < end; e++) s += t[codes ? codes[e]! : e]! * x[cols[e]!]!;
       y[r - yAt] = s;
       r++;
     }
@@ -431,8 +401,7 @@ export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float6
   const { rowPtr, cols, diag } = m;
   if (!m.complex) {
     if (!m.codes && !m.values) oneValueRows(m, x, y, r0, r1, yAt);
-    else if (m.codes) codedRows(m, m.codes, x, y, r0, r1, yAt);
-    else valuedRows(m, m.values!, x, y, r0, r1, yAt);
+    else tabledRows(m, m.values ?? m.table!, m.codes, x, y, r0, r1, yAt);
     return;
   }
   // Complex: entries as (re, im) pairs, from the table or the values.
