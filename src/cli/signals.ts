@@ -3,11 +3,14 @@ import { setFlagsFromString } from 'node:v8';
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import { workerScript } from '../util/packageRoot.js';
 
-/** Exit status after a signal: 128 + the signal number (common practice in POSIX shells). */
 /** How long a command may take to act on a forwarded signal before its thread is terminated. */
 const FORWARD_GRACE_MS = 400;
 
-export const SIGNAL_STATUS = { SIGINT: 130, SIGTERM: 143 } as const;
+/**
+ * Exit status after a signal: 128 + the signal number (common practice in POSIX shells). SIGHUP
+ * comes when the terminal of an interactive session closes; it is handled like SIGTERM.
+ */
+export const SIGNAL_STATUS = { SIGINT: 130, SIGTERM: 143, SIGHUP: 129 } as const;
 
 /** How long a worker may take to stop after `terminate()` before the process exits regardless. */
 const STOP_GRACE_MS = 1500;
@@ -24,10 +27,10 @@ export interface CliWorkerData {
 export type CliWorkerMessage = { out: string } | { err: string } | { status: number };
 
 /**
- * Run the CLI in a worker thread and keep this thread free for SIGINT/SIGTERM, which Node can only
+ * Run the CLI in a worker thread and keep this thread free for SIGINT/SIGTERM/SIGHUP, which Node can only
  * deliver to an idle main thread: the worker may sit in a long synchronous Lanczos loop or an
  * Atomics wait. On a signal the worker (and its own workers) is terminated, temporary output files
- * it had in flight are removed, earlier outputs are never touched, and the process exits 130/143.
+ * it had in flight are removed, earlier outputs are never touched, and the process exits 130/143/129.
  * Resolves with the exit status of a run that was not interrupted, as soon as the worker reports it
  * (its output has arrived by then; the worker and its own threads may still be tearing down). `script` replaces
  * `workers/cli.js` (tests use it to stand in a worker that never finishes).
@@ -73,10 +76,9 @@ export function runCliSupervised(argv: string[], opts: { script?: string } = {})
       stop();
     });
   };
-  const onInt = (): void => onSignal('SIGINT');
-  const onTerm = (): void => onSignal('SIGTERM');
-  process.on('SIGINT', onInt);
-  process.on('SIGTERM', onTerm);
+  const signals = Object.keys(SIGNAL_STATUS) as Array<keyof typeof SIGNAL_STATUS>;
+  const handlers = signals.map((signal) => [signal, (): void => onSignal(signal)] as const);
+  for (const [signal, handler] of handlers) process.on(signal, handler);
 
   // A reader that stops early (`| head`) closes the pipe: drop the rest of the output quietly and let
   // the run finish (its --out file included) instead of dying on EPIPE with a stack trace.
@@ -109,8 +111,7 @@ export function runCliSupervised(argv: string[], opts: { script?: string } = {})
     });
     worker.on('exit', () => {
       if (interrupted) return;
-      process.off('SIGINT', onInt);
-      process.off('SIGTERM', onTerm);
+      for (const [signal, handler] of handlers) process.off(signal, handler);
       channel.port1.close();
       resolve(status ?? 1);
     });

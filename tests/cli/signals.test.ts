@@ -121,7 +121,7 @@ for (;;) {}
   });
 });
 
-describe('bin.js under SIGINT/SIGTERM', () => {
+describe('bin.js under SIGINT/SIGTERM/SIGHUP', () => {
   beforeAll(async () => {
     expect(existsSync(bin)).toBe(true);
     dir = tempDir('bitspan-signal-');
@@ -130,7 +130,8 @@ describe('bin.js under SIGINT/SIGTERM', () => {
     ({ hamiltonian, samples } = writeBenchCase(dir, { side: 8, distinct: 200000, seed: 1 }));
   });
 
-  for (const [signal, status] of [['SIGINT', 130], ['SIGTERM', 143]] as const) {
+  // SIGHUP: the terminal of an interactive session closed (129 = 128 + 1, common practice).
+  for (const [signal, status] of [['SIGINT', 130], ['SIGTERM', 143], ['SIGHUP', 129]] as const) {
     it(`runCliSupervised exits ${status} on ${signal}, leaves the earlier --out file intact and no temporary file`, async () => {
       const out = join(dir, `result-${signal}.json`);
       const earlier = '{"earlier": "result"}\n';

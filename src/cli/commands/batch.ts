@@ -8,6 +8,7 @@ import { runAll } from '../../batch/runAll.js';
 import { jobFiles, runJob, type JobOutcome } from '../../batch/runJob.js';
 import { ARRAY_VARIABLES, jobNameFor, sbatchScript, taskFromEnv } from '../../batch/schedulers.js';
 import { BitspanError } from '../../errors.js';
+import { SIGNAL_STATUS } from '../signals.js';
 import { removePendingTemps } from '../../io/atomicWrite.js';
 import { commandCatalog } from '../commandCatalog.js';
 import type { CliIo } from '../io.js';
@@ -107,8 +108,8 @@ async function runEvery(io: CliIo, manifest: Manifest, output: string, procs: Jo
 }
 
 /**
- * Run `body`; if SIGINT or SIGTERM arrives meanwhile, stop the job processes, remove temporary
- * files and exit 130 or 143. Results already written stay; the interrupted jobs rerun next time.
+ * Run `body`; if SIGINT, SIGTERM or SIGHUP arrives meanwhile, stop the job processes, remove
+ * temporary files and exit 130, 143 or 129. Results already written stay; the interrupted jobs rerun next time.
  */
 async function whileHandlingSignals<T>(procs: JobProcesses, body: () => Promise<T>): Promise<T> {
   const onSignal = (signal: NodeJS.Signals): void => {
@@ -116,15 +117,14 @@ async function whileHandlingSignals<T>(procs: JobProcesses, body: () => Promise<
     // writes the files), so they can be stopped outright even if one is stuck.
     procs.stop('SIGKILL');
     removePendingTemps();
-    process.exit(signal === 'SIGINT' ? 130 : 143);
+    process.exit(SIGNAL_STATUS[signal as keyof typeof SIGNAL_STATUS] ?? 143);
   };
-  process.on('SIGINT', onSignal);
-  process.on('SIGTERM', onSignal);
+  const signals = Object.keys(SIGNAL_STATUS) as NodeJS.Signals[];
+  for (const s of signals) process.on(s, onSignal);
   try {
     return await body();
   } finally {
-    process.off('SIGINT', onSignal);
-    process.off('SIGTERM', onSignal);
+    for (const s of signals) process.off(s, onSignal);
   }
 }
 
