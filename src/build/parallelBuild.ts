@@ -1,6 +1,7 @@
 import type { Basis } from '../bits/basis.js';
 import { MessageChannel } from 'node:worker_threads';
 import { errorFromWorker, releaseSolveWorkers, takeSolveWorkers, type BuildReply, type SolveWorkerMessage } from '../parallel/solveWorkers.js';
+import { PieceSlab, SLAB_MIN_DIM } from './pieceSlab.js';
 import { buildUpperRows, type UpperPiece } from './projectedHamiltonian.js';
 import { upperPerRowEstimate, type RowScanPlan } from './rowScan.js';
 import { storedFromPieces, type StoredHamiltonian } from './storedHamiltonian.js';
@@ -23,14 +24,14 @@ export interface SharedChunks {
 }
 
 /** Take chunks until none are left; each piece on SharedArrayBuffers, so it returns without a copy (a one-value piece keeps one value). */
-export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity): UpperPiece[] {
+export function buildTakenChunks(work: SharedChunks, maxChunks = Infinity, slab = work.basis.dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined): UpperPiece[] {
   const pieces: UpperPiece[] = [];
   const dim = work.basis.dim;
   while (pieces.length < maxChunks) {
     const r0 = Atomics.add(work.progress, 0, 1) * work.step;
     if (r0 >= dim) break;
     const r1 = Math.min(dim, r0 + work.step);
-    pieces.push(buildUpperRows(work.basis, work.plan, r0, r1, { upperPerRow: work.upperPerRow, shared: true, diag: work.diag, compactValues: true }));
+    pieces.push(buildUpperRows(work.basis, work.plan, r0, r1, { upperPerRow: work.upperPerRow, shared: true, diag: work.diag, compactValues: true, slab }));
     Atomics.add(work.progress, 1, r1 - r0);
   }
   return pieces;
@@ -79,7 +80,8 @@ export async function buildProjectedHamiltonianParallel(
   };
   if (single) {
     const pieces: UpperPiece[] = [];
-    for (let got = buildTakenChunks(work, 1); got.length > 0; got = buildTakenChunks(work, 1)) {
+    const slab = basis.dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined;
+    for (let got = buildTakenChunks(work, 1, slab); got.length > 0; got = buildTakenChunks(work, 1, slab)) {
       pieces.push(...got);
       onProgress?.(Atomics.load(work.progress, 1), basis.dim);
     }
@@ -105,11 +107,12 @@ export async function buildProjectedHamiltonianParallel(
   );
   // This thread takes chunks too, one at a time, yielding between them so replies can arrive.
   const own: UpperPiece[] = [];
+  const slab = basis.dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined;
   let helped: UpperPiece[][];
   try {
     for (;;) {
       await new Promise<void>((resolve) => setImmediate(resolve));
-      const got = buildTakenChunks(work, 1);
+      const got = buildTakenChunks(work, 1, slab);
       if (got.length === 0) break;
       own.push(...got);
       onProgress?.(Atomics.load(work.progress, 1), basis.dim);

@@ -1,4 +1,5 @@
 import type { Basis } from '../bits/basis.js';
+import type { PieceSlab } from './pieceSlab.js';
 import { popcount32 } from '../bits/packed.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
@@ -87,6 +88,8 @@ export interface BuildRowsOptions {
   diag?: Float64Array;
   /** When every (real) entry has one value, keep just that value (`UpperPiece.oneValue`). */
   compactValues?: boolean;
+  /** Carve the piece's arrays (shared) from this thread's slabs (see pieceSlab.ts). */
+  slab?: PieceSlab;
 }
 
 /**
@@ -115,8 +118,9 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   let cap = Math.max(64, Math.ceil(rows * (opts.upperPerRow ?? 4) * 1.25) + 64);
   let { cols, values } = stagingFor(cap, w);
   cap = Math.min(cols.length, values.length / w);
-  const diag = opts.diag ? opts.diag.subarray(w * r0, w * r1) : new Float64Array(alloc(w * rows * 8));
-  const rowEnd = new Int32Array(alloc(rows * 4));
+  const slab = opts.slab;
+  const diag = opts.diag ? opts.diag.subarray(w * r0, w * r1) : slab ? slab.float64(w * rows) : new Float64Array(alloc(w * rows * 8));
+  const rowEnd = slab ? slab.int32(rows) : new Int32Array(alloc(rows * 4));
   const s = rowScratch(plan);
   const tables = scanTables(plan);
   let nnz = 0;
@@ -153,14 +157,14 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
     }
   }
   // Explicit lengths: a shared buffer is at least 8 bytes.
-  const outCols = new Int32Array(alloc(nnz * 4), 0, nnz);
+  const outCols = slab ? slab.int32(nnz) : new Int32Array(alloc(nnz * 4), 0, nnz);
   outCols.set(cols.subarray(0, nnz));
   if (opts.compactValues && !complex && nnz > 0 && allOneValue(values, nnz)) {
-    const one = new Float64Array(alloc(8), 0, 1);
+    const one = slab ? slab.float64(1) : new Float64Array(alloc(8), 0, 1);
     one[0] = values[0]!;
     return { r0, r1, diag, rowEnd, cols: outCols, values: one, oneValue: true };
   }
-  const outValues = new Float64Array(alloc(w * nnz * 8), 0, w * nnz);
+  const outValues = slab ? slab.float64(w * nnz) : new Float64Array(alloc(w * nnz * 8), 0, w * nnz);
   outValues.set(values.subarray(0, w * nnz));
   return { r0, r1, diag, rowEnd, cols: outCols, values: outValues };
 }

@@ -1,5 +1,6 @@
 import type { UpperPiece } from './projectedHamiltonian.js';
 import type { SparseMatrix } from './sparseMatrix.js';
+import { PieceSlab, SLAB_MIN_DIM } from './pieceSlab.js';
 
 /**
  * H_S as the solver stores it: the diagonal as a dense vector, the off-diagonal entries (both
@@ -79,7 +80,9 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
   // Pieces that wrote into one whole diagonal (see BuildRowsOptions.diag) hand it over as it is.
   const whole = wholeDiagonal(pieces, w, dim, shared);
   const diag = whole ?? new Float64Array(alloc(w * dim * 8));
-  const lower = new Int32Array(dim);
+  // Transients from a slab of their own on large matrices (see pieceSlab.ts): their pages go back when it is dropped.
+  const scratch = dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined;
+  const lower = scratch ? scratch.int32(dim) : new Int32Array(dim);
   let upper = 0;
   for (const p of pieces) {
     if (!whole) diag.set(p.diag, w * p.r0);
@@ -89,7 +92,7 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
   const coding = valueCodes(pieces, complex);
   const nnz = 2 * upper;
   const rowPtr = rowStarts(dim, nnz, alloc);
-  const lowerPos = new Float64Array(dim);
+  const lowerPos = scratch ? scratch.float64(dim) : new Float64Array(dim);
   let at = 0;
   for (const p of pieces) {
     for (let r = p.r0; r < p.r1; r++) {
@@ -129,15 +132,17 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
   const nnz = 2 * upper;
   const cols = new Int32Array(alloc(nnz * 4));
   // Entries of each basis row: the mirrors of upper entries in its column, plus its upper ones.
-  const count = new Uint32Array(dim);
+  // Transients from a slab of their own on large matrices (see pieceSlab.ts).
+  const scratch = dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined;
+  const count = scratch ? scratch.uint32(dim) : new Uint32Array(dim);
   let take: Int32Array;
   let posOf: Int32Array;
   if (order === 'locality') {
     // The search's scratch is `count` (lower-list ends) and the first half of `cols`.
-    ({ take, posOf } = breadthFirst(dim, pieces, count, cols.subarray(0, Math.max(1, upper))));
+    ({ take, posOf } = breadthFirst(dim, pieces, count, cols.subarray(0, Math.max(1, upper)), scratch));
     for (let r = dim - 1; r > 0; r--) count[r]! -= count[r - 1]!;
   } else {
-    ({ take, posOf } = order === 'lengths' ? identityOrder(dim) : order);
+    ({ take, posOf } = order === 'lengths' ? identityOrder(dim, scratch) : order);
     for (const p of pieces) for (let e = 0; e < p.cols.length; e++) count[p.cols[e]!]!++;
   }
   for (const p of pieces) {
@@ -487,7 +492,7 @@ export function localityOrder(dim: number, pieces: UpperPiece[]): StorageOrder {
  * `localityOrder` in caller-given scratch: `lowEnd` (dim zeros) ends up holding where each row's
  * list of lower neighbours ends in `lowAdj` (at least one slot per upper entry).
  */
-function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lowAdj: Int32Array): StorageOrder {
+function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lowAdj: Int32Array, scratch?: PieceSlab): StorageOrder {
   // Lower-list lengths, then starts, then (after the fill) ends. 32 bits suffice: they index a typed array.
   for (const p of pieces) for (let e = 0; e < p.cols.length; e++) lowEnd[p.cols[e]!]!++;
   let at = 0;
@@ -500,28 +505,33 @@ function breadthFirst(dim: number, pieces: UpperPiece[], lowEnd: Uint32Array, lo
     let e = 0;
     for (let r = p.r0; r < p.r1; r++) for (const end = p.rowEnd[r - p.r0]!; e < end; e++) lowAdj[lowEnd[p.cols[e]!]!++] = r;
   }
-  return breadthFirstOrder(dim, (r, visit) => {
-    for (let e = r === 0 ? 0 : lowEnd[r - 1]!, end = lowEnd[r]!; e < end; e++) visit(lowAdj[e]!);
-    // The piece holding row r: a binary search over the few pieces' first rows.
-    let lo = 0;
-    for (let hi = pieces.length - 1; lo < hi; ) {
-      const mid = (lo + hi + 1) >> 1;
-      if (pieces[mid]!.r0 <= r) lo = mid;
-      else hi = mid - 1;
-    }
-    while (pieces[lo]!.r1 <= r) lo--; // past empty pieces that start at r
-    const p = pieces[lo]!;
-    const i = r - p.r0;
-    for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!, end = p.rowEnd[i]!; e < end; e++) visit(p.cols[e]!);
-  });
+  return breadthFirstOrder(
+    dim,
+    (r, visit) => {
+      for (let e = r === 0 ? 0 : lowEnd[r - 1]!, end = lowEnd[r]!; e < end; e++) visit(lowAdj[e]!);
+      // The piece holding row r: a binary search over the few pieces' first rows.
+      let lo = 0;
+      for (let hi = pieces.length - 1; lo < hi; ) {
+        const mid = (lo + hi + 1) >> 1;
+        if (pieces[mid]!.r0 <= r) lo = mid;
+        else hi = mid - 1;
+      }
+      while (pieces[lo]!.r1 <= r) lo--; // past empty pieces that start at r
+      const p = pieces[lo]!;
+      const i = r - p.r0;
+      for (let e = i === 0 ? 0 : p.rowEnd[i - 1]!, end = p.rowEnd[i]!; e < end; e++) visit(p.cols[e]!);
+    },
+    scratch?.int32(dim),
+  );
 }
 
 /** Basis order as a StorageOrder. */
-function identityOrder(dim: number): StorageOrder {
+function identityOrder(dim: number, scratch?: PieceSlab): StorageOrder {
   // A plain loop: `Int32Array.from` with a map function costs tens of milliseconds at 10^6 rows.
   const take = new Int32Array(dim);
-  for (let i = 0; i < dim; i++) take[i] = i;
-  return { take, posOf: take.slice() };
+  const posOf = scratch ? scratch.int32(dim) : new Int32Array(dim);
+  for (let i = 0; i < dim; i++) take[i] = posOf[i] = i;
+  return { take, posOf };
 }
 
 /** Rows per window that `lengthSorted` sorts: measured at D = 10^6, 4096 beat 256 and 1024 (and the whole matrix, which loses locality). */
@@ -556,9 +566,9 @@ export function lengthSorted(take: Int32Array, posOf: Int32Array, lengthOf: Uint
  * Breadth-first order of a graph on `dim` vertices, each component from its lowest unvisited vertex;
  * `neighbours(r, visit)` calls `visit` on every neighbour of r, in the order they are to be taken.
  */
-function breadthFirstOrder(dim: number, neighbours: (r: number, visit: (c: number) => void) => void): StorageOrder {
+function breadthFirstOrder(dim: number, neighbours: (r: number, visit: (c: number) => void) => void, posOfArray?: Int32Array): StorageOrder {
   const take = new Int32Array(dim);
-  const posOf = new Int32Array(dim).fill(-1);
+  const posOf = (posOfArray ?? new Int32Array(dim)).fill(-1);
   let head = 0;
   let tail = 0;
   const visit = (c: number): void => {

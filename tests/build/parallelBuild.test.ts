@@ -2,9 +2,10 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { makeBasis } from '../../src/bits/basis.js';
 import { buildProjectedHamiltonianParallel } from '../../src/build/parallelBuild.js';
-import { sectorFlipTest } from '../../src/build/projectedHamiltonian.js';
+import { buildProjectedHamiltonian, sectorFlipTest } from '../../src/build/projectedHamiltonian.js';
+import { SLAB_MIN_DIM } from '../../src/build/pieceSlab.js';
 import { rowScanPlan, upperPerRowEstimate } from '../../src/build/rowScan.js';
-import { LENGTH_WINDOW, reorderForLocality, sortRowsByLength, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
+import { LENGTH_WINDOW, reorderForLocality, sortRowsByLength, toSparseMatrix, type StoredHamiltonian } from '../../src/build/storedHamiltonian.js';
 import { readHamiltonian } from '../../src/io/readHamiltonian.js';
 import { readSamples } from '../../src/io/readSamples.js';
 import { selectSubspace } from '../../src/sectors/selectSubspace.js';
@@ -139,6 +140,31 @@ describe('buildProjectedHamiltonianParallel', () => {
     }
     expect(roots).toBe(components);
     expect(components).toBeLessThan(dim);
+  });
+
+  it('above SLAB_MIN_DIM (pieces and assembly scratch carved from slabs) every build and storage order is the plain CSR build of the same matrix, on 1 and 2 threads', async () => {
+    // 36-qubit Heisenberg torus with more sampled configurations than SLAB_MIN_DIM.
+    const { writeBenchCase } = (await import(join(process.cwd(), 'dist/bench/cases.js'))) as typeof import('../../bench/cases.js');
+    const { hamiltonian, samples } = writeBenchCase(tempDir('bitspan-slabs-'), { side: 6, distinct: SLAB_MIN_DIM + 10000, seed: 4 });
+    const h = await readHamiltonian(hamiltonian);
+    const sector = { weights: [{ lo: 0, hi: -1, weight: 18 }] };
+    const { basis } = selectSubspace(await readSamples([samples]), { sector, shared: true });
+    expect(basis.dim).toBeGreaterThanOrEqual(SLAB_MIN_DIM);
+    const groups = groupByFlipMask(h, basis.nWords);
+    const compiled = compileSector(sector, basis.qubits, basis.nWords);
+    const plan = rowScanPlan(groups, sectorFlipTest(groups, compiled));
+    // Reference: the one-piece CSR builder, which uses no slabs.
+    const want = buildProjectedHamiltonian(basis, groups, compiled);
+    const same = (a: ArrayLike<number>, b: ArrayLike<number>): boolean => a.length === b.length && Array.prototype.every.call(a, (v: number, i: number) => v === b[i]);
+    for (const threads of [1, 2]) {
+      for (const opts of [{}, { lengths: true }, { locality: true }]) {
+        const got = toSparseMatrix(await buildProjectedHamiltonianParallel(basis, plan, threads, opts));
+        const what = `${threads} threads, ${JSON.stringify(opts)}`;
+        expect(same(got.rowPtr, want.rowPtr), `rowPtr, ${what}`).toBe(true);
+        expect(same(got.cols, want.cols), `cols, ${what}`).toBe(true);
+        expect(same(got.values, want.values), `values, ${what}`).toBe(true);
+      }
+    }
   });
 
   it('projectAndSolve gives the same energies to 1e-10 for 1, 2 and 4 threads, stored and matrix-free', async () => {
