@@ -154,7 +154,8 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
   if (typeof order === 'string') lengthSorted(take, posOf, count);
   const diag = new Float64Array(alloc(w * dim * 8));
   for (const p of pieces) {
-    for (let r = p.r0; r < p.r1; r++) for (let k = 0; k < w; k++) diag[w * posOf[r]! + k] = p.diag[w * (r - p.r0) + k]!;
+    if (w === 1) for (let r = p.r0; r < p.r1; r++) diag[posOf[r]!] = p.diag[r - p.r0]!;
+    else for (let r = p.r0; r < p.r1; r++) for (let k = 0; k < w; k++) diag[w * posOf[r]! + k] = p.diag[w * (r - p.r0) + k]!;
   }
   const coding = valueCodes(pieces, complex);
   // rowPtr[i + 1] starts as row i's start and moves along as the row fills: it then ends the row.
@@ -170,7 +171,17 @@ function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], orde
     let e = 0;
     for (let r = p.r0; r < p.r1; r++) {
       const i = posOf[r]!;
-      for (const end = p.rowEnd[r - p.r0]!; e < end; e++) {
+      const end = p.rowEnd[r - p.r0]!;
+      if (!codes && !values) {
+        // One value: only the columns are placed (the common lattice case, kept free of placePair's branches).
+        for (; e < end; e++) {
+          const j = posOf[p.cols[e]!]!;
+          cols[rowPtr[i + 1]!++] = j;
+          cols[rowPtr[j + 1]!++] = i;
+        }
+        continue;
+      }
+      for (; e < end; e++) {
         const j = posOf[p.cols[e]!]!;
         placePair(cols, codes, values, coding?.conjugate, complex, codes ? coding!.codeOf[codeAt++]! : 0, p.values, p.oneValue ? 0 : e, rowPtr[i + 1]!++, j, rowPtr[j + 1]!++, i);
       }
