@@ -34,7 +34,7 @@ export { makeIntegrals, setOneElectron, setTwoElectron, eriIndex, countNonzeroIn
 
 export { buildProjectedHamiltonian, buildUpperRows, assembleHermitian, sectorFlipTest, type UpperPiece, type SectorFlipTest, type BuildRowsOptions } from './build/projectedHamiltonian.js';
 export { rowScanPlan, type RowScanPlan } from './build/rowScan.js';
-export { storedFromPieces, applyStoredRows, storedNonzeros, storedBytes, toSparseMatrix, reorderForLocality, sortRowsByLength, lengthSorted, LENGTH_WINDOW, localityOrder, inBasisOrder, permuteVector, toBasisOrderInPlace, type StoredHamiltonian, type StorageOrder } from './build/storedHamiltonian.js';
+export { storedFromPieces, applyStoredRows, replayStoredRows, storedNonzeros, storedBytes, toSparseMatrix, reorderForLocality, sortRowsByLength, lengthSorted, LENGTH_WINDOW, localityOrder, inBasisOrder, permuteVector, toBasisOrderInPlace, type StoredHamiltonian, type StorageOrder } from './build/storedHamiltonian.js';
 export { buildDeterminantHamiltonian, buildDeterminantRows, countDeterminantRows, pieceMatrix, prepareDeterminants, determinantRow, determinantDiagonal, determinantNonzeroBound, forEachRow, RowSink, type DeterminantContext } from './build/determinantHamiltonian.js';
 export { applyDeterminantRows, determinantOperator } from './build/determinantOperator.js';
 export { splitSpinStrings, makeSpinStrings, type SpinStrings, type SpinSplit } from './build/spinStrings.js';

@@ -78,9 +78,10 @@ export async function buildProjectedHamiltonianParallel(
     // Basis order: the stored matrix keeps this diagonal as it is (see storedFromPieces).
     diag: renumbered ? undefined : single ? new Float64Array(w * basis.dim) : new Float64Array(new SharedArrayBuffer(8 * Math.max(1, w * basis.dim))),
   };
+  // This thread's slabs for its pieces (a worker makes its own in buildTakenChunks).
+  const slab = basis.dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined;
   if (single) {
     const pieces: UpperPiece[] = [];
-    const slab = basis.dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined;
     for (let got = buildTakenChunks(work, 1, slab); got.length > 0; got = buildTakenChunks(work, 1, slab)) {
       pieces.push(...got);
       onProgress?.(Atomics.load(work.progress, 1), basis.dim);
@@ -107,7 +108,6 @@ export async function buildProjectedHamiltonianParallel(
   );
   // This thread takes chunks too, one at a time, yielding between them so replies can arrive.
   const own: UpperPiece[] = [];
-  const slab = basis.dim >= SLAB_MIN_DIM ? new PieceSlab() : undefined;
   let helped: UpperPiece[][];
   try {
     for (;;) {

@@ -99,6 +99,9 @@ export interface BuildRowsOptions {
  */
 let staging = { cols: new Int32Array(0), values: new Float64Array(0) };
 
+/** Entries the staging keeps between pieces (a build's chunks need far fewer); a larger one, made for one big piece, is let go. */
+const STAGING_KEEP_ENTRIES = 1 << 17;
+
 function stagingFor(cap: number, w: number): typeof staging {
   if (staging.cols.length < cap) staging = { cols: new Int32Array(cap), values: new Float64Array(w * cap) };
   else if (staging.values.length < w * cap) staging.values = new Float64Array(w * cap);
@@ -159,14 +162,17 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   // Explicit lengths: a shared buffer is at least 8 bytes.
   const outCols = slab ? slab.int32(nnz) : new Int32Array(alloc(nnz * 4), 0, nnz);
   outCols.set(cols.subarray(0, nnz));
-  if (opts.compactValues && !complex && nnz > 0 && allOneValue(values, nnz)) {
-    const one = slab ? slab.float64(1) : new Float64Array(alloc(8), 0, 1);
-    one[0] = values[0]!;
-    return { r0, r1, diag, rowEnd, cols: outCols, values: one, oneValue: true };
+  let outValues: Float64Array;
+  const oneValue = opts.compactValues === true && !complex && nnz > 0 && allOneValue(values, nnz);
+  if (oneValue) {
+    outValues = slab ? slab.float64(1) : new Float64Array(alloc(8), 0, 1);
+    outValues[0] = values[0]!;
+  } else {
+    outValues = slab ? slab.float64(w * nnz) : new Float64Array(alloc(w * nnz * 8), 0, w * nnz);
+    outValues.set(values.subarray(0, w * nnz));
   }
-  const outValues = slab ? slab.float64(w * nnz) : new Float64Array(alloc(w * nnz * 8), 0, w * nnz);
-  outValues.set(values.subarray(0, w * nnz));
-  return { r0, r1, diag, rowEnd, cols: outCols, values: outValues };
+  if (staging.cols.length > STAGING_KEEP_ENTRIES) staging = { cols: new Int32Array(0), values: new Float64Array(0) };
+  return oneValue ? { r0, r1, diag, rowEnd, cols: outCols, values: outValues, oneValue } : { r0, r1, diag, rowEnd, cols: outCols, values: outValues };
 }
 
 /** Whether values[0..n) are one value, bit for bit (−0 and 0 stay apart, as value codes keep them). */

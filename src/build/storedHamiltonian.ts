@@ -1,6 +1,7 @@
 import type { UpperPiece } from './projectedHamiltonian.js';
 import type { SparseMatrix } from './sparseMatrix.js';
 import { PieceSlab, SLAB_MIN_DIM } from './pieceSlab.js';
+import { REPLAY_BLOCK, replayFusedRange } from '../solvers/lanczosSweeps.js';
 
 /**
  * H_S as the solver stores it: the diagonal as a dense vector, the off-diagonal entries (both
@@ -440,6 +441,19 @@ export function applyStoredRows(m: StoredHamiltonian, x: Float64Array, y: Float6
     y[2 * (r - yAt)] = sr;
     y[2 * (r - yAt) + 1] = si;
   }
+}
+
+/** This thread's block buffer for fused replays (each worker thread has its own module instance). */
+let replayScratch = new Float64Array(0);
+
+/**
+ * One replayed two-pass Lanczos step fused with the product over rows [r0, r1), in storage order
+ * (`replayFusedRange`): x += yj·v and vPrev ← (H v − a·v − b·vPrev)·inv.
+ */
+export function replayStoredRows(m: StoredHamiltonian, v: Float64Array, vPrev: Float64Array, x: Float64Array, a: number, b: number, inv: number, yj: number, r0 = 0, r1 = m.dim): void {
+  const width = m.complex ? 2 : 1;
+  if (replayScratch.length < width * REPLAY_BLOCK) replayScratch = new Float64Array(width * REPLAY_BLOCK);
+  replayFusedRange((y, rb, re) => applyStoredRows(m, v, y, rb, re, rb), width, v, vPrev, x, a, b, inv, yj, r0, r1, replayScratch);
 }
 
 /**

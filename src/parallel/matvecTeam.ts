@@ -2,9 +2,9 @@ import { MessageChannel, type MessagePort, type Worker } from 'node:worker_threa
 import type { Basis } from '../bits/basis.js';
 import { applyUpperRows } from '../build/projectedHamiltonian.js';
 import type { RowScanPlan } from '../build/rowScan.js';
-import { applyStoredRows, type StoredHamiltonian } from '../build/storedHamiltonian.js';
+import { applyStoredRows, replayStoredRows, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import type { LinearOperator } from '../solvers/lanczos.js';
-import { localSweeps, REPLAY_BLOCK, replayFusedRange, replayRange, scaleRange, stepDotsRange, stepUpdateRange, type LanczosSweeps } from '../solvers/lanczosSweeps.js';
+import { localSweeps, replayRange, scaleRange, stepDotsRange, stepUpdateRange, type LanczosSweeps } from '../solvers/lanczosSweeps.js';
 import { closeSolveWorkers, releaseSolveWorkers, startSolveWorkers, takeSolveWorkers, type SolveWorkerMessage } from './solveWorkers.js';
 
 /**
@@ -57,7 +57,8 @@ export function runTeamTask(spec: TeamSpec, m: number, ctrl: Int32Array): void {
   const task = Atomics.load(ctrl, SLOT_TASK);
   const vec = (k: number): Float64Array => spec.vectors[Atomics.load(ctrl, SLOT_VECTORS + k)]!;
   if (task === TASK_REPLAY_PRODUCT) {
-    storedReplay(spec.matrix!, vec(0), vec(1), vec(2), spec.params, spec.bounds[m]!, spec.bounds[m + 1]!);
+    const p = spec.params;
+    replayStoredRows(spec.matrix!, vec(0), vec(1), vec(2), p[0]!, p[1]!, p[2]!, p[3]!, spec.bounds[m]!, spec.bounds[m + 1]!);
     return;
   }
   if (task === TASK_PRODUCT) {
@@ -79,16 +80,6 @@ export function runTeamTask(spec: TeamSpec, m: number, ctrl: Int32Array): void {
   else if (task === TASK_UPDATE) spec.partials[2 * m] = stepUpdateRange(vec(0), vec(1), vec(2), p[0]!, p[1]!, i0, i1);
   else if (task === TASK_SCALE) scaleRange(vec(0), p[0]!, i0, i1);
   else if (task === TASK_REPLAY) replayRange(vec(0), vec(1), vec(2), vec(3), p[0]!, p[1]!, p[2]!, p[3]!, i0, i1);
-}
-
-/** This thread's block buffer for fused replays (each worker has its own module instance). */
-let replayScratch = new Float64Array(0);
-
-/** The fused replay of a stored matrix over rows [r0, r1), with the step's scalars p = [a, b, inv, yj]. */
-function storedReplay(matrix: StoredHamiltonian, v: Float64Array, vPrev: Float64Array, x: Float64Array, p: Float64Array, r0: number, r1: number): void {
-  const width = matrix.complex ? 2 : 1;
-  if (replayScratch.length < width * REPLAY_BLOCK) replayScratch = new Float64Array(width * REPLAY_BLOCK);
-  replayFusedRange((y, rb, re) => applyStoredRows(matrix, v, y, rb, re, rb), width, v, vPrev, x, p[0]!, p[1]!, p[2]!, p[3]!, r0, r1, replayScratch);
 }
 
 const sharedVector = (len: number): Float64Array => new Float64Array(new SharedArrayBuffer(Math.max(8, len * 8)));
@@ -259,7 +250,7 @@ export class MatvecTeam implements LinearOperator {
 
   private storedReplayStep(v: Float64Array, vPrev: Float64Array, x: Float64Array, a: number, b: number, inv: number, yj: number): void {
     const at = this.indices(v, vPrev, x);
-    if (!at) return storedReplay(this.spec.matrix!, v, vPrev, x, Float64Array.of(a, b, inv, yj), 0, this.dim);
+    if (!at) return replayStoredRows(this.spec.matrix!, v, vPrev, x, a, b, inv, yj);
     this.run(TASK_REPLAY_PRODUCT, at, [a, b, inv, yj]);
   }
 

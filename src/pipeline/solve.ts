@@ -5,7 +5,7 @@ import { buildProjectedHamiltonianParallel, MIN_ROWS_PARALLEL } from '../build/p
 import { planMemory, type MemoryPlan } from '../build/memoryPlan.js';
 import { applyUpperRows, buildProjectedHamiltonian, sectorFlipTest } from '../build/projectedHamiltonian.js';
 import { filterOrder, FILTER_ORDER_MIN_BYTES, rowScanPlan } from '../build/rowScan.js';
-import { applyStoredRows, permuteVector, storedNonzeros, toBasisOrderInPlace, type StoredHamiltonian } from '../build/storedHamiltonian.js';
+import { applyStoredRows, permuteVector, replayStoredRows, storedNonzeros, toBasisOrderInPlace, type StoredHamiltonian } from '../build/storedHamiltonian.js';
 import { MatvecTeam, startMatvecWorkers } from '../parallel/matvecTeam.js';
 import { defaultThreads } from '../parallel/threads.js';
 import { makeBasis } from '../bits/basis.js';
@@ -17,7 +17,6 @@ import { groupByFlipMask, highestQubit, type PauliSum } from '../operators/pauli
 import { compileSector, describeSector, type Sector } from '../sectors/sector.js';
 import { selectSubspace, type SubspaceReport } from '../sectors/selectSubspace.js';
 import { lanczos, LANCZOS_DEFAULTS, type LanczosResult, type LinearOperator } from '../solvers/lanczos.js';
-import { REPLAY_BLOCK, replayFusedRange } from '../solvers/lanczosSweeps.js';
 import type { SampleSet } from '../io/readSamples.js';
 import { stateOnBasis, type StateOnConfigs } from '../analysis/stateOnBasis.js';
 import type { AnalysisOptions, AnalysisReport, ReferenceEnergy } from './analyze.js';
@@ -196,13 +195,11 @@ export function storedOperator(m: StoredHamiltonian): LinearOperator {
 
 /** A stored matrix as an operator on vectors in its storage order, on this thread, with the fused two-pass replay. */
 export function storageOrderOperator(m: StoredHamiltonian): LinearOperator {
-  const width = m.complex ? 2 : 1;
-  const scratch = new Float64Array(width * REPLAY_BLOCK);
   return {
     dim: m.dim,
     complex: m.complex,
     apply: (x, y) => applyStoredRows(m, x, y),
-    replayStep: (v, vPrev, x, a, b, inv, yj) => replayFusedRange((y, rb, re) => applyStoredRows(m, v, y, rb, re, rb), width, v, vPrev, x, a, b, inv, yj, 0, m.dim, scratch),
+    replayStep: (v, vPrev, x, a, b, inv, yj) => replayStoredRows(m, v, vPrev, x, a, b, inv, yj),
   };
 }
 
