@@ -1,5 +1,6 @@
 import type { Basis } from '../bits/basis.js';
 import type { PieceSlab } from './pieceSlab.js';
+import { newBuffer } from '../util/buffers.js';
 import { popcount32 } from '../bits/packed.js';
 import type { FlipGroups } from '../operators/pauliSum.js';
 import type { CompiledSector } from '../sectors/sector.js';
@@ -117,13 +118,13 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
   const rows = r1 - r0;
   const w = complex ? 2 : 1;
   // Shared buffers cross back to the calling thread without a copy.
-  const alloc = (bytes: number): ArrayBufferLike => (opts.shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(bytes));
+  const alloc = (bytes: number): ArrayBufferLike => newBuffer(bytes, opts.shared === true);
   let cap = Math.max(64, Math.ceil(rows * (opts.upperPerRow ?? 4) * 1.25) + 64);
   let { cols, values } = stagingFor(cap, w);
   cap = Math.min(cols.length, values.length / w);
   const slab = opts.slab;
-  const diag = opts.diag ? opts.diag.subarray(w * r0, w * r1) : slab ? slab.float64(w * rows) : new Float64Array(alloc(w * rows * 8));
-  const rowEnd = slab ? slab.int32(rows) : new Int32Array(alloc(rows * 4));
+  const diag = opts.diag ? opts.diag.subarray(w * r0, w * r1) : slab ? slab.float64(w * rows) : new Float64Array(alloc(w * rows * 8), 0, w * rows);
+  const rowEnd = slab ? slab.int32(rows) : new Int32Array(alloc(rows * 4), 0, rows);
   const s = rowScratch(plan);
   const tables = scanTables(plan);
   let nnz = 0;
@@ -159,7 +160,6 @@ export function buildUpperRows(basis: Basis, plan: RowScanPlan, r0: number, r1: 
       rowEnd[r - r0] = nnz;
     }
   }
-  // Explicit lengths: a shared buffer is at least 8 bytes.
   const outCols = slab ? slab.int32(nnz) : new Int32Array(alloc(nnz * 4), 0, nnz);
   outCols.set(cols.subarray(0, nnz));
   let outValues: Float64Array;

@@ -1,6 +1,7 @@
 import type { UpperPiece } from './projectedHamiltonian.js';
 import type { SparseMatrix } from './sparseMatrix.js';
 import { PieceSlab, SLAB_MIN_DIM } from './pieceSlab.js';
+import { newBuffer } from '../util/buffers.js';
 import { REPLAY_BLOCK, replayFusedRange } from '../solvers/lanczosSweeps.js';
 
 /**
@@ -76,7 +77,7 @@ export interface StorageOrder {
  */
 export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPiece[], shared = false, order?: StorageOrder | 'locality' | 'lengths'): StoredHamiltonian {
   if (order) return storedInOrder(dim, complex, pieces, order, shared);
-  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
+  const alloc = (bytes: number): ArrayBufferLike => newBuffer(bytes, shared);
   const w = complex ? 2 : 1;
   // Pieces that wrote into one whole diagonal (see BuildRowsOptions.diag) hand it over as it is.
   const whole = wholeDiagonal(pieces, w, dim, shared);
@@ -126,7 +127,7 @@ export function storedFromPieces(dim: number, complex: boolean, pieces: UpperPie
  * basis index (its mirrored lower ones, then its upper ones), as `permuteStored` keeps them.
  */
 function storedInOrder(dim: number, complex: boolean, pieces: UpperPiece[], order: StorageOrder | 'locality' | 'lengths', shared: boolean): StoredHamiltonian {
-  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
+  const alloc = (bytes: number): ArrayBufferLike => newBuffer(bytes, shared);
   const w = complex ? 2 : 1;
   let upper = 0;
   for (const p of pieces) upper += p.cols.length;
@@ -462,7 +463,7 @@ export function replayStoredRows(m: StoredHamiltonian, v: Float64Array, vPrev: F
  * index in every matrix made here) unless `ascending` sorts them by their new column.
  */
 function permuteStored(m: StoredHamiltonian, take: Int32Array, posOf: Int32Array, order: Int32Array | undefined, shared: boolean, ascending = false): StoredHamiltonian {
-  const alloc = (bytes: number): ArrayBufferLike => (shared ? new SharedArrayBuffer(Math.max(8, bytes)) : new ArrayBuffer(Math.max(8, bytes)));
+  const alloc = (bytes: number): ArrayBufferLike => newBuffer(bytes, shared);
   const { dim, complex } = m;
   const w = complex ? 2 : 1;
   const nnz = m.rowPtr[dim]!;
@@ -613,18 +614,17 @@ function breadthFirstOrder(dim: number, neighbours: (r: number, visit: (c: numbe
 /**
  * Renumber the rows in breadth-first order of the matrix graph (Cuthill–McKee without the degree
  * sort): a row's neighbours then sit close together, so a product's gathers from x mostly hit
- * cache lines already loaded. On a sampled Heisenberg subspace at D = 10^6 this halves the product
+ * cache lines already loaded. On a sampled Heisenberg subspace at D = 10^6 this halved the product
  * time. The result records the order; `storedOperator` and `toSparseMatrix` undo it. The solver
- * gets the same matrix without this second copy: `storedFromPieces(..., 'locality')`.
+ * assembles this order, then sorted by length (`sortRowsByLength`), straight from the build's
+ * pieces without a second copy: `storedFromPieces(..., 'locality')`.
  */
 export function reorderForLocality(m: StoredHamiltonian, shared = false): StoredHamiltonian {
   const { dim, rowPtr, cols } = m;
-  const { take, posOf } = breadthFirstOrder(dim, (r, visit) => {
+  const renumbering = breadthFirstOrder(dim, (r, visit) => {
     for (let e = rowPtr[r]!, end = rowPtr[r + 1]!; e < end; e++) visit(cols[e]!);
   });
-  // Compose with an earlier order: storage row i holds basis row order_old[take[i]].
-  const order = m.order ? Int32Array.from(take, (r) => m.order![r]!) : take;
-  return permuteStored(m, take, posOf, order, shared);
+  return renumbered(m, renumbering, shared);
 }
 
 /**
@@ -633,9 +633,15 @@ export function reorderForLocality(m: StoredHamiltonian, shared = false): Stored
  */
 export function sortRowsByLength(m: StoredHamiltonian, shared = false): StoredHamiltonian {
   const { dim, rowPtr } = m;
-  const { take, posOf } = identityOrder(dim);
+  const renumbering = identityOrder(dim);
   const lengthOf = Int32Array.from({ length: dim }, (_, r) => rowPtr[r + 1]! - rowPtr[r]!);
-  lengthSorted(take, posOf, lengthOf);
+  lengthSorted(renumbering.take, renumbering.posOf, lengthOf);
+  return renumbered(m, renumbering, shared);
+}
+
+/** m with its storage rows renumbered (storage row i ← row take[i] of m), the order composed with m's own. */
+function renumbered(m: StoredHamiltonian, { take, posOf }: StorageOrder, shared: boolean): StoredHamiltonian {
+  // Storage row i holds basis row order_old[take[i]].
   const order = m.order ? Int32Array.from(take, (r) => m.order![r]!) : take;
   return permuteStored(m, take, posOf, order, shared);
 }
