@@ -207,10 +207,11 @@ export function storageOrderOperator(m: StoredHamiltonian): LinearOperator {
  * Dimension from which the stored matrix is built renumbered for locality when its products run
  * on one thread. The renumbered rows are assembled straight from the build's pieces, so the peak
  * does not rise (bench Heisenberg cases, 64 qubits, 2 shared cores: 403 vs 433 MB at D = 2×10^6,
- * medians of 5). On one thread a product then takes 0.5–0.76× the time and a one-eigenpair solve
- * gains 3–15% overall from D ≈ 5×10^4; the renumbering costs ~0.2 µs a row. A two-thread team's
- * product took 0.75–0.95×, which a one-eigenpair solve (~50 products) did not win back, so teams
- * keep basis order unless `reorderFromDim` asks (worth it for many products: several eigenpairs).
+ * medians of 5). When this was set, before rows were also sorted by length: on one thread a
+ * product took 0.5–0.76× the time and a one-eigenpair solve gained 3–15% overall from D ≈ 5×10^4,
+ * for ~0.2 µs a row of renumbering; a two-thread team's product took 0.75–0.95×, which a
+ * one-eigenpair solve (~50 products) did not win back. So teams keep basis order (sorted by length,
+ * see LENGTH_SORT_MIN_DIM) unless `reorderFromDim` asks.
  */
 export const REORDER_MIN_DIM = 50000;
 
@@ -219,7 +220,7 @@ export const REORDER_MIN_DIM = 50000;
  * within windows (`lengthSorted`), so the product kernel sums four rows at a time. Measured on the
  * bench Heisenberg cases, 64 qubits, 2 shared cores, one process each: a two-thread product at
  * D = 10^6 took 3.6–3.8 ms instead of 8.6–9.2 ms, at 2×10^6 10.2 ms instead of 23.1 ms, for
- * 70–90 ms more assembly at 10^6 (the sort and the diagonal placed by position).
+ * 70–90 ms more assembly at 10^6 when introduced (the sort and the diagonal placed by position).
  */
 export const LENGTH_SORT_MIN_DIM = 4096;
 
@@ -479,8 +480,7 @@ export async function solve(opts: SolveOptions): Promise<SolveOutcome> {
     matrixFree: opts.matrixFree,
     onBuildProgress: opts.onBuildProgress,
     onSolveProgress: opts.onSolveProgress,
-    // Expansion looks configurations up between its solves.
-    releaseIndex: opts.releaseIndex === true && !(opts.expand && opts.expand.steps > 0),
+    releaseIndex: opts.releaseIndex,
   };
   const selected = await readAndSelect(opts, hamiltonian, hamiltonianFile, sector, settings, clock, timings);
   const sub: SubspaceSolveOptions = { hamiltonianFile, sector, minCount: opts.minCount, maxDim: opts.maxDim, ...settings, top: opts.top, qubit0: opts.qubit0, expand: opts.expand, start: selected.start, analysis: selected.analysis };
@@ -554,7 +554,8 @@ export async function solveSelected(hamiltonian: PauliSum, sampled: Basis, repor
   if (opts.expand && opts.expand.steps > 0) {
     const t = performance.now();
     const lowestOf = async (b: Basis): Promise<{ energy: number; psi: Float64Array }> => {
-      const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1 });
+      // Expansion looks configurations up between its solves: their bases keep their index.
+      const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1, releaseIndex: false });
       return { energy: p.eigen.values[0]!, psi: p.eigen.vectors[0]! };
     };
     const { expandSubspace } = await import('./expand.js');
@@ -581,8 +582,9 @@ export async function solveBasis(
   const complex = groupByFlipMask(hamiltonian, basis.nWords).complex;
   const start = opts.start ? stateOnBasis(opts.start.state, basis, complex) : null;
   const threads = opts.threads ?? defaultThreads();
-  // The index is needed afterwards to match a start state and by the analyses.
-  const releaseIndex = opts.releaseIndex === true && !opts.start && !opts.analysis;
+  // The index is needed afterwards to match a start state and by the analyses; after an expansion
+  // it is kept, as SolveOptions.releaseIndex says.
+  const releaseIndex = opts.releaseIndex === true && !opts.start && !opts.analysis && !extras.expansion;
   const projection = await projectAndSolve(hamiltonian, basis, opts.sector, { ...opts, tol, seed, threads, start: start ?? undefined, releaseIndex });
   const { matrix, eigen } = projection;
   timings.build = projection.timings.build;
@@ -606,7 +608,7 @@ export async function solveBasis(
   }
   if (opts.analysis) {
     const solveOn = async (b: Basis): Promise<{ energy: number; residual: number }> => {
-      const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1, tol, seed, threads });
+      const p = await projectAndSolve(hamiltonian, b, opts.sector, { ...opts, start: undefined, eigs: 1, tol, seed, threads, releaseIndex: false });
       return { energy: p.eigen.values[0]!, residual: p.eigen.residuals[0]! };
     };
     const operator = matrix ? storedOperator(matrix) : matrixFreeOperator(hamiltonian, basis, opts.sector);
